@@ -1,0 +1,25 @@
+"""pfuzz: valid and near-miss test data for input validators, from patterns.
+
+A pattern (Python ``re`` syntax, the regular subset) is compiled to its
+minimal DFA over a universe of characters. From that automaton pfuzz counts
+the accepted strings of each length exactly, samples them uniformly by
+length, builds near-miss rejects from the complement intersected with the
+edit neighbourhood, and writes boundary suites and paired corpora.
+
+    >>> import pfuzz
+    >>> lang = pfuzz.compile(r"[A-Z]{2}[0-9]{4}")
+    >>> lang.accepts("AB1234")
+    True
+"""
+
+from .charset import CharSet, UNIVERSES
+from .dfa import DEFAULT_STATE_CAP, DFA
+from .errors import EmptyLanguageError, PatternError, PfuzzError, StateLimitError, UniverseError
+from .language import Language, compile
+
+__version__ = "0.1.0"
+
+__all__ = [
+    "CharSet", "DFA", "DEFAULT_STATE_CAP", "EmptyLanguageError", "Language", "PatternError",
+    "PfuzzError", "StateLimitError", "UNIVERSES", "UniverseError", "compile", "__version__",
+]

@@ -1,0 +1,131 @@
+"""What every pfuzz command shares: options, pattern input, output and errors.
+
+One option vocabulary for all commands (``--seed``, ``--universe``,
+``--ignore-case``, ``--min-length``, ``--max-length``, ``--format``,
+``--out``, ``--pattern-file``), defined once here. Commands stay thin: they
+parse options, call the library, and print.
+"""
+
+from __future__ import annotations
+
+import functools
+import re
+import sys
+from pathlib import Path
+
+import click
+
+from ..charset import DEFAULT_UNIVERSE, UNIVERSES
+from ..dfa import DEFAULT_STATE_CAP
+from ..errors import PatternError, PfuzzError
+from ..files import write_atomic
+
+EXIT_OK, EXIT_DIFFERENT, EXIT_USAGE = 0, 1, 2
+
+UNIVERSE_HELP = (f"Characters to work over: {', '.join(UNIVERSES)}, or a class such as "
+                 f"'[a-z0-9]'. Default: {DEFAULT_UNIVERSE} (U+0020-U+007E).")
+
+
+def fail(message: str, detail: str = "") -> "NoReturn":  # noqa: F821
+    """Print one error line (and an optional detail block) and exit with status 2."""
+    click.echo(f"pfuzz: error: {message}", err=True)
+    if detail:
+        click.echo(detail, err=True)
+    sys.exit(EXIT_USAGE)
+
+
+def report_errors(func):
+    """Turn pfuzz's own errors into one clear line and exit status 2 (``--debug`` re-raises)."""
+    @functools.wraps(func)
+    def wrapper(*args, **kwargs):
+        ctx = click.get_current_context()
+        try:
+            return func(*args, **kwargs)
+        except PatternError as error:
+            if (ctx.find_root().obj or {}).get("debug"):
+                raise
+            where = f" at column {error.position}" if error.position is not None else ""
+            fail(f"bad pattern{where}: {error.message}", error.caret())
+        except (PfuzzError, OSError) as error:
+            if (ctx.find_root().obj or {}).get("debug"):
+                raise
+            fail(str(error))
+    return wrapper
+
+
+def pattern_input(func):
+    """PATTERN argument, or --pattern-file FILE; passes ``pattern`` (str)."""
+    @click.argument("pattern_arg", metavar="PATTERN", required=False)
+    @click.option("--pattern-file", type=click.Path(dir_okay=False, path_type=Path),
+                  help="Read the pattern from FILE (one pattern; a final newline is dropped).")
+    @functools.wraps(func)
+    def wrapper(*args, pattern_arg=None, pattern_file=None, **kwargs):
+        if (pattern_arg is None) == (pattern_file is None):
+            fail("give a PATTERN argument or --pattern-file FILE (exactly one)")
+        if pattern_file is not None:
+            try:
+                text = pattern_file.read_text(encoding="utf-8")
+            except OSError as error:
+                fail(f"cannot read pattern file {str(pattern_file)!r}: {error.strerror}")
+            pattern_arg = text[:-1] if text.endswith("\n") else text
+        return func(*args, pattern=pattern_arg, **kwargs)
+    return wrapper
+
+
+def language_options(func):
+    """--universe, --ignore-case, --state-cap; passes ``universe``, ``flags``, ``state_cap``."""
+    @click.option("--universe", default=DEFAULT_UNIVERSE, show_default=True, help=UNIVERSE_HELP)
+    @click.option("--ignore-case", "-i", is_flag=True, help="Compile as with re.IGNORECASE.")
+    @click.option("--state-cap", type=click.IntRange(min=1), default=DEFAULT_STATE_CAP,
+                  show_default=True, help="Stop with an error past this many DFA states.")
+    @functools.wraps(func)
+    def wrapper(*args, ignore_case=False, **kwargs):
+        return func(*args, flags=re.IGNORECASE if ignore_case else 0, **kwargs)
+    return wrapper
+
+
+def compile_language(pattern: str, universe: str, flags: int, state_cap: int):
+    from ..language import Language
+    return Language.compile(pattern, universe, flags, state_cap=state_cap)
+
+
+seed_option = click.option("--seed", type=click.IntRange(min=0), default=0, show_default=True,
+                           help="Seed of the one random generator; same seed, same output.")
+min_length_option = click.option("--min-length", type=click.IntRange(min=0), default=None,
+                                 help="Shortest length to consider.")
+max_length_option = click.option("--max-length", type=click.IntRange(min=0), default=None,
+                                 help="Longest length to consider.")
+out_option = click.option("--out", "-o", type=click.Path(path_type=Path), default=None,
+                          help="Write to FILE (atomically) instead of standard output.")
+
+
+def format_option(choices: tuple[str, ...], default: str):
+    return click.option("--format", "fmt", type=click.Choice(choices), default=default,
+                        show_default=True, help="Output format.")
+
+
+def emit(text: str, out: "Path | None") -> None:
+    """Send finished output to stdout or, atomically, to a file."""
+    if out is None:
+        click.echo(text, nl=False)
+    else:
+        write_atomic(out, text)
+        click.echo(f"pfuzz: wrote {out}", err=True)
+
+
+def escape_text(text: str) -> str:
+    r"""One-line form of a string for text output: backslash, newline, CR, tab and
+    other control or invisible characters become Python-style escapes."""
+    out = []
+    for ch in text:
+        if ch == "\\":
+            out.append("\\\\")
+        elif ch.isprintable() or ch == " ":
+            out.append(ch)
+        else:
+            out.append(ch.encode("unicode_escape").decode("ascii"))
+    return "".join(out)
+
+
+def needs_escape(text: str) -> bool:
+    return escape_text(text) != text

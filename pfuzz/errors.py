@@ -1,0 +1,45 @@
+"""The exceptions pfuzz raises on bad input.
+
+Every error a user can cause is one of these, so the command line can print
+one clear line (and, for patterns, a caret under the column) instead of a
+traceback.
+"""
+
+from __future__ import annotations
+
+
+class PfuzzError(Exception):
+    """Base class of every error pfuzz raises on purpose."""
+
+
+class PatternError(PfuzzError, ValueError):
+    """A pattern pfuzz cannot compile: bad syntax or a construct that is not regular.
+
+    ``position`` is the 0-based index into ``pattern`` (as ``re.error.pos``),
+    or None when the error concerns the pattern as a whole.
+    """
+
+    def __init__(self, message: str, pattern: str | None = None, position: int | None = None):
+        super().__init__(message)
+        self.message = message
+        self.pattern = pattern
+        self.position = position
+
+    def caret(self) -> str:
+        """The pattern on one line and a caret under the offending column."""
+        if self.pattern is None or self.position is None:
+            return ""
+        line = self.pattern.replace("\n", " ").replace("\t", " ")
+        return f"  {line}\n  {' ' * self.position}^"
+
+
+class StateLimitError(PfuzzError):
+    """The automaton would exceed the configured state cap."""
+
+
+class UniverseError(PfuzzError, ValueError):
+    """A universe specification pfuzz does not understand."""
+
+
+class EmptyLanguageError(PfuzzError, ValueError):
+    """Sampling or explaining was asked of a language with no strings."""

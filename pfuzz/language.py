@@ -1,0 +1,191 @@
+"""``Language``: the minimal DFA of a pattern plus its universe, as one value.
+
+This is the façade every upper room and every user receives. It holds an
+immutable ``DFA`` (see ``pfuzz.dfa``) and forwards each question to the room
+that owns the method: counting and sampling to ``pfuzz.counting``, near-miss
+rejects and witnesses to ``pfuzz.nearmiss``, boundary suites to
+``pfuzz.boundary``, back-translation to a pattern to ``pfuzz.elimination``.
+Derived tables (count tables, the near-miss automata) are built lazily and
+cached on the instance; the instance itself never changes, so it is cheap to
+share between threads of work.
+"""
+
+from __future__ import annotations
+
+from functools import cached_property
+from typing import Iterator, Sequence
+
+from . import dfa as automata
+from .charset import CharSet
+from .dfa import DEFAULT_STATE_CAP, DFA
+
+
+class Language:
+    """A regular language over a universe, backed by its minimal DFA."""
+
+    def __init__(self, dfa: DFA, *, pattern: str | None = None, flags: int = 0,
+                 universe_name: str | None = None):
+        self.dfa = dfa
+        self.pattern = pattern
+        self.flags = flags
+        self.universe_name = universe_name or dfa.universe.describe()
+        self._derived: dict = {}
+
+    # -- construction ------------------------------------------------------------
+    @classmethod
+    def compile(cls, pattern: str, universe: "str | CharSet" = "printable", flags: int = 0,
+                *, state_cap: int = DEFAULT_STATE_CAP) -> "Language":
+        from .compiler import compile_dfa
+        from .universe import resolve_universe, universe_label
+
+        alphabet = resolve_universe(universe)
+        dfa = compile_dfa(pattern, alphabet, flags=flags, cap=state_cap)
+        return cls(dfa, pattern=pattern, flags=flags, universe_name=universe_label(universe))
+
+    def _wrap(self, dfa: DFA, pattern: str | None = None) -> "Language":
+        return Language(dfa, pattern=pattern, universe_name=self.universe_name)
+
+    # -- basic facts -----------------------------------------------------------------
+    @property
+    def universe(self) -> CharSet:
+        return self.dfa.universe
+
+    @property
+    def states(self) -> int:
+        """States of the trimmed minimal DFA; the dead state is not counted."""
+        return 0 if self.is_empty() else self.dfa.n_states
+
+    @property
+    def classes(self) -> tuple[CharSet, ...]:
+        return self.dfa.classes
+
+    def accepts(self, text: str) -> bool:
+        return self.dfa.accepts(text)
+
+    def __contains__(self, text: str) -> bool:
+        return self.accepts(text)
+
+    def is_empty(self) -> bool:
+        return self.dfa.is_empty()
+
+    def is_finite(self) -> bool:
+        return automata.is_finite(self.dfa)
+
+    @cached_property
+    def min_length(self) -> int | None:
+        return automata.min_length(self.dfa)
+
+    @cached_property
+    def max_length(self) -> int | None:
+        """Longest accepted length; None when unbounded (or empty)."""
+        return automata.max_length(self.dfa)
+
+    def shortest(self) -> str | None:
+        return automata.shortest(self.dfa)
+
+    # -- boolean algebra ---------------------------------------------------------------
+    def complement(self) -> "Language":
+        return self._wrap(automata.complement(self.dfa))
+
+    def __and__(self, other: "Language") -> "Language":
+        return self._wrap(automata.intersection(self.dfa, other.dfa))
+
+    def __or__(self, other: "Language") -> "Language":
+        return self._wrap(automata.union(self.dfa, other.dfa))
+
+    def __sub__(self, other: "Language") -> "Language":
+        return self._wrap(automata.difference(self.dfa, other.dfa))
+
+    def __xor__(self, other: "Language") -> "Language":
+        return self._wrap(automata.symmetric_difference(self.dfa, other.dfa))
+
+    def distinguish(self, other: "Language") -> str | None:
+        """None when equal, else the shortlex-least string in exactly one of them."""
+        return automata.distinguish(self.dfa, other.dfa)
+
+    def equivalent(self, other: "Language") -> bool:
+        return self.distinguish(other) is None
+
+    def with_any_suffix(self) -> "Language":
+        """L·U*: the strings that start with a string of L (``re.match`` semantics)."""
+        return self._wrap(automata.with_any_suffix(self.dfa))
+
+    def with_any_prefix(self) -> "Language":
+        """U*·L: the strings that end with a string of L."""
+        return self._wrap(automata.concatenate(automata.universal(self.universe), self.dfa))
+
+    # -- counting and sampling (pfuzz.counting) -------------------------------------------
+    @property
+    def counter(self):
+        if "counter" not in self._derived:
+            from .counting import Counter
+            self._derived["counter"] = Counter(self.dfa)
+        return self._derived["counter"]
+
+    def count(self, length: int) -> int:
+        return self.counter.count(length)
+
+    def counts(self, min_length: int = 0, max_length: int | None = None) -> dict[int, int]:
+        return self.counter.counts(min_length, max_length)
+
+    @property
+    def total(self) -> int | None:
+        return self.counter.total()
+
+    def lengths(self, max_length: int | None = None) -> list[int]:
+        return self.counter.lengths(max_length)
+
+    def sample(self, n: int, *, min_length: int | None = None, max_length: int | None = None,
+               seed=None, lengths="even", unique: bool = False) -> list[str]:
+        return self.counter.sample(n, min_length=min_length, max_length=max_length,
+                                   seed=seed, lengths=lengths, unique=unique)
+
+    def rank(self, text: str) -> int:
+        return self.counter.rank(text)
+
+    def unrank(self, length: int, index: int) -> str:
+        return self.counter.unrank(length, index)
+
+    def enumerate(self, min_length: int = 0, max_length: int | None = None,
+                  start: int = 0, stop: int | None = None) -> Iterator[str]:
+        return self.counter.enumerate(min_length, max_length, start, stop)
+
+    # -- near misses (pfuzz.nearmiss) -------------------------------------------------------
+    def near_misses(self, distance: int = 1, kinds: Sequence[str] | None = None) -> "Language":
+        """N_d(L) − L under the OSA edit distance, as a Language."""
+        key = ("near", distance, tuple(sorted(kinds)) if kinds else None)
+        if key not in self._derived:
+            from .nearmiss import near_miss_dfa
+            self._derived[key] = self._wrap(near_miss_dfa(self.dfa, distance, kinds))
+        return self._derived[key]
+
+    def explain(self, text: str):
+        from .nearmiss import explain
+        return explain(self.dfa, text)
+
+    def rejects(self, n: int, *, distance: int = 1, kinds: Sequence[str] | None = None,
+                seed=None, min_length: int | None = None, max_length: int | None = None,
+                edges: bool = False):
+        from .nearmiss import sample_rejects
+        return sample_rejects(self.dfa, n, distance=distance, kinds=kinds, seed=seed,
+                              min_length=min_length, max_length=max_length, edges=edges)
+
+    # -- boundary suites and back-translation ---------------------------------------------
+    def boundary_cases(self, max_length: int | None = None):
+        from .boundary import suite
+        return suite(self.dfa, max_length=max_length)
+
+    def to_pattern(self, limit: int | None = None) -> str | None:
+        """A Python ``re`` pattern for this language (state elimination), or None if too large."""
+        from .elimination import pattern_of
+        return pattern_of(self.dfa, limit=limit)
+
+    def __repr__(self) -> str:
+        label = repr(self.pattern) if self.pattern is not None else "derived"
+        return f"<Language {label} over {self.universe_name}: {self.states} states>"
+
+
+def compile(pattern: str, universe: "str | CharSet" = "printable", flags: int = 0,
+            *, state_cap: int = DEFAULT_STATE_CAP) -> Language:
+    """Compile a Python ``re`` pattern to the Language ``re.fullmatch`` accepts over ``universe``."""
+    return Language.compile(pattern, universe, flags, state_cap=state_cap)
