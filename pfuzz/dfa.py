@@ -14,11 +14,15 @@ Constructions, each with its source:
   edit-neighbourhood builder, products) supply only a step function. States
   are numbered in breadth-first order, so results are deterministic.
 - ``minimise``: trimming (drop states that cannot reach acceptance), then
-  Hopcroft's partition refinement, "An n log n algorithm for minimizing states
-  in a finite automaton" (1971), on the completed automaton; the dead block is
-  dropped again afterwards, which is the treatment of partial DFAs of Valmari &
-  Lehtinen (STACS 2008) done the simple way, at the cost of one extra state.
-  Classes that every state treats alike are then merged, and states renumbered
+  partition refinement on the completed automaton. Moore's refinement (1956),
+  vectorised with numpy one class column per pass, runs first: it needs one
+  round per symbol of the longest shortest distinguishing suffix, so it is the
+  fast choice for the wide automata patterns produce. When its rounds exceed a
+  budget (long chains), Hopcroft's algorithm, "An n log n algorithm for
+  minimizing states in a finite automaton" (1971), takes over. The dead block
+  is dropped afterwards, which handles partial DFAs (Valmari & Lehtinen,
+  STACS 2008) the simple way, at the cost of one extra state. Classes that
+  every state treats alike are then merged, and states renumbered
   canonically (breadth-first from the start, classes in order of their
   smallest character), so equal languages over equal universes give equal
   values.
@@ -28,9 +32,10 @@ Constructions, each with its source:
   increasing order, which finds the shortlex-least string in the symmetric
   difference.
 
-Cost: ``explore`` and the products are O(states × classes) steps; Hopcroft is
-O(k n log n) for n states and k classes. All of it is pure Python: about a
-microsecond per table cell per pass, fine to a few hundred thousand states.
+Cost: ``explore`` and the products are O(states × classes) steps in pure
+Python (about a microsecond per table cell); Moore's refinement is
+O(rounds × n × k) numpy work, Hopcroft's O(k n log n) pure Python. The
+2**17-state automaton of ``(a|b)*a(a|b){16}`` minimises in under a second.
 """
 
 from __future__ import annotations
