@@ -1,0 +1,273 @@
+"""Tests for pfuzz.boundary: verdicts, transition coverage, determinism, size, cost.
+
+Two references outside the module: Python's ``re.fullmatch`` for compiled
+patterns, and brute-force enumeration of every string over a small universe
+for automata built directly from a Python predicate (so these do not depend
+on the pattern compiler either).
+"""
+
+from __future__ import annotations
+
+import importlib.util
+import itertools
+import re
+import time
+
+import pytest
+
+import pfuzz
+from pfuzz import boundary
+from pfuzz.boundary import UNBOUNDED_SPAN, Case, coverage, suite, transitions
+from pfuzz.charset import CharSet
+from pfuzz.dfa import explore, from_strings, minimise
+
+#: Realistic validator patterns; every case's verdict is checked against re.fullmatch.
+PATTERNS = [
+    r"[0-9]{4}-[0-9]{2}-[0-9]{2}",
+    r"(0[1-9]|1[0-2])/(0[1-9]|[12][0-9]|3[01])",
+    r"([01][0-9]|2[0-3]):[0-5][0-9]",
+    r"[A-Z]{2}[0-9]{2}[A-Z0-9]{4}[0-9]{7}([A-Z0-9]?){0,16}",
+    r"[A-Za-z_][A-Za-z0-9_]{0,30}",
+    r"[a-z0-9._%+-]+@[a-z0-9.-]+\.[a-z]{2,6}",
+    r"\+[1-9][0-9]{0,2}[0-9]{4,12}",
+    r"#([0-9a-fA-F]{3}|[0-9a-fA-F]{6})",
+    r"(25[0-5]|2[0-4][0-9]|1[0-9]{2}|[1-9]?[0-9])(\.(25[0-5]|2[0-4][0-9]|1[0-9]{2}|[1-9]?[0-9])){3}",
+    r"(0|[1-9][0-9]*)\.(0|[1-9][0-9]*)\.(0|[1-9][0-9]*)",
+    r"[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}",
+    r"[A-Z]{1,2}[0-9][A-Z0-9]? ?[0-9][A-Z]{2}",
+    r"[0-9]{5}(-[0-9]{4})?",
+    r"-?(0|[1-9][0-9]{0,8})(\.[0-9]{1,2})?",
+    r"(?i)[a-f0-9]{2}(:[a-f0-9]{2}){5}",
+    r"[a-z]+(-[a-z]+)*",
+    r"(ab)+",
+    r"a{3,5}|b{7}",
+    r"[0-9]{3} [0-9]{3} [0-9]{4}",
+    r"(?=.*[0-9])(?=.*[a-z])[a-z0-9]{6,12}",
+    r"(?!.*  ).{1,20}",
+    r"[A-Z][a-z]+( [A-Z][a-z]+)?",
+    r"v?[0-9]+(\.[0-9]+){0,2}",
+    r"[0-9]{1,3}(,[0-9]{3})*(\.[0-9]{2})?",
+    r"(true|false|yes|no|on|off)",
+    r"[a-z]{2}(-[A-Z]{2})?",
+    r"\d{2}\.\d{2}\.\d{4}",
+    r"[^,;\s]{1,10}",
+    r"x*y?x{2}",
+    r"(foo|foobar|bar)baz?",
+]
+
+
+# TEMPORARY (remove when the pattern compiler of issue 2 has landed): the tests
+# marked with this wait for pfuzz.syntax.
+needs_compiler = pytest.mark.skipif(importlib.util.find_spec("pfuzz.syntax") is None,
+                                    reason="TEMPORARY: waits for the pattern compiler")
+
+
+def compiled(pattern):
+    return pfuzz.compile(pattern)
+
+
+# -- automata built from predicates, checked by brute force --------------------------
+
+AB = CharSet.range("a", "c")
+
+
+def dfa_of(words):
+    return from_strings(words, AB)
+
+
+def strings_upto(n, letters="abc"):
+    for k in range(n + 1):
+        for t in itertools.product(letters, repeat=k):
+            yield "".join(t)
+
+
+def mod_dfa(modulus, residue, letter="a"):
+    """Strings over a-c whose count of ``letter`` is ``residue`` modulo ``modulus`` (infinite)."""
+    classes = [CharSet.single(c) for c in "abc"]
+
+    def step(k, c):
+        return (k + (1 if "abc"[c] == letter else 0)) % modulus
+
+    return minimise(explore(0, step, lambda k: k == residue, classes, AB)), \
+        (lambda s: s.count(letter) % modulus == residue)
+
+
+FINITE_PREDICATES = [
+    lambda s: 2 <= len(s) <= 5 and s.count("a") % 2 == 0,
+    lambda s: s in {"ab", "abc", "b", "ca", "cab", "ccccc"},
+    lambda s: len(s) in (1, 4, 5) and s.startswith("a"),
+    lambda s: len(s) <= 4 and "bb" not in s,
+    lambda s: len(s) == 3 and s[1] != "c",
+    lambda s: s == "",
+]
+
+
+def brute_facts(member, upto):
+    valid = [s for s in strings_upto(upto) if member(s)]
+    lengths = sorted({len(s) for s in valid})
+    shortest = min(valid, key=lambda s: (len(s), s))
+    longest = min(valid, key=lambda s: (-len(s), s))
+    return valid, lengths, shortest, longest
+
+
+@pytest.mark.parametrize("index", range(len(FINITE_PREDICATES)))
+def test_finite_suites_against_brute_force(index):
+    member = FINITE_PREDICATES[index]
+    valid, lengths, shortest, longest = brute_facts(member, 6)
+    dfa = dfa_of(valid)
+    cases = suite(dfa)
+    for case in cases:
+        assert case.expected == member(case.text), case  # reference: the predicate itself
+    by = {c.category: c for c in cases}
+    assert cases[0] == by["shortest"] and cases[0].text == shortest
+    assert [c.text for c in cases if c.category == "longest"] in ([longest], [])
+    assert any(c.text == longest for c in cases)
+    # every edge of the set of valid lengths appears: valid at the edge, invalid just outside
+    edges = [n for n in lengths if n - 1 not in lengths or n + 1 not in lengths]
+    texts = {c.text for c in cases}
+    for n in edges:
+        assert min((s for s in valid if len(s) == n)) in texts
+        outside = [m for m in (n - 1, n + 1) if m >= 0 and m not in lengths]
+        for m in outside:
+            assert any(len(c.text) == m and not c.expected for c in cases), (n, m)
+
+
+@pytest.mark.parametrize("modulus,residue,letter", [(3, 0, "a"), (2, 1, "b"), (4, 2, "c")])
+def test_unbounded_suite_uses_the_documented_bound(modulus, residue, letter):
+    dfa, member = mod_dfa(modulus, residue, letter)
+    cases = suite(dfa)
+    for case in cases:
+        assert case.expected == member(case.text), case
+    shortest = min((s for s in strings_upto(4) if member(s)), key=lambda s: (len(s), s))
+    assert cases[0].text == shortest
+    (longest,) = [c for c in cases if c.category == "longest"]
+    assert len(longest.text) == len(shortest) + UNBOUNDED_SPAN
+    assert "no upper limit" in longest.reason
+    bounded = suite(dfa, max_length=9)
+    (longest,) = [c for c in bounded if c.category == "longest"]
+    assert len(longest.text) == 9
+    assert longest.text == min(s for s in strings_upto(9) if len(s) == 9 and member(s))
+
+
+def test_length_edges_of_a_periodic_language():
+    # valid lengths of (ab)+ over a-c: 2, 4, 6, ...: the scan stops once the pattern repeats
+    classes = [CharSet.single(c) for c in "abc"]
+    dfa = minimise(explore(
+        (0, False), lambda st, c: ((st[0] + 1) % 2, True) if "abc"[c] == "ab"[st[0]] else None,
+        lambda st: st[1] and st[0] == 0, classes, AB))
+    edges = [c for c in suite(dfa) if c.category == "length-edge"]
+    assert sorted(len(c.text) for c in edges) == [1, 3]
+    assert all(not c.expected for c in edges)
+
+
+def test_empty_language_has_an_empty_suite():
+    assert suite(dfa_of([])) == []
+    assert coverage(dfa_of([])) == []
+
+
+def test_negative_bound_is_refused():
+    with pytest.raises(ValueError, match="max_length"):
+        suite(dfa_of(["a"]), max_length=-1)
+
+
+# -- coverage -------------------------------------------------------------------------
+
+def taken(dfa, text):
+    pairs, s = set(), 0
+    for ch in text:
+        t = dfa.table[s][dfa.class_of(ch)]
+        pairs.add((s, t))
+        s = t
+    return pairs
+
+
+def live_transitions_from_table(dfa):
+    """Every (state, next state) pair of the table between live states (independent of boundary)."""
+    live = dfa.live_states()
+    return {(s, t) for s in live for t in dfa.table[s] if t >= 0 and t in live}
+
+
+def assert_covers(dfa):
+    strings = coverage(dfa)
+    assert all(dfa.accepts(s) for s in strings)
+    union = set().union(*(taken(dfa, s) for s in strings)) if strings else set()
+    assert union == live_transitions_from_table(dfa)
+    assert len(strings) <= len(transitions(dfa))
+    return strings
+
+
+@pytest.mark.parametrize("index", range(len(FINITE_PREDICATES)))
+def test_coverage_takes_every_transition_of_small_automata(index):
+    valid = [s for s in strings_upto(6) if FINITE_PREDICATES[index](s)]
+    assert_covers(dfa_of(valid))
+
+
+def test_coverage_of_cyclic_automata():
+    for args in [(3, 0, "a"), (5, 2, "b")]:
+        assert_covers(mod_dfa(*args)[0])
+
+
+# -- patterns against re.fullmatch (needs the pattern compiler) ------------------------
+
+@needs_compiler
+@pytest.mark.parametrize("pattern", PATTERNS)
+def test_every_case_agrees_with_re(pattern):
+    lang = compiled(pattern)
+    cases = suite(lang.dfa)
+    assert cases, pattern
+    for case in cases:
+        reference = re.fullmatch(pattern, case.text) is not None  # reference: Python's re
+        assert case.expected == reference, (pattern, case)
+        assert case.category in boundary.CATEGORIES and case.reason
+        assert all(ch in lang.universe for ch in case.text)
+    assert len({c.text for c in cases}) == len(cases)
+    strings = assert_covers(lang.dfa)
+    assert sum(c.category == "coverage" for c in cases) <= len(strings)
+
+
+@needs_compiler
+@pytest.mark.parametrize("pattern", PATTERNS[:10])
+def test_suite_is_deterministic(pattern):
+    first = suite(compiled(pattern).dfa)
+    again = suite(compiled(pattern).dfa)
+    assert first == again
+    assert [c.category for c in first] == sorted((c.category for c in first),
+                                                  key=boundary.CATEGORIES.index)
+
+
+@needs_compiler
+@pytest.mark.parametrize("pattern", PATTERNS)
+def test_size_bounds(pattern):
+    dfa = compiled(pattern).dfa
+    cases = suite(dfa)
+    edges = transitions(dfa)
+    ranges = sum(len(label.ranges) for _, label, _ in edges)
+    count = {k: sum(c.category == k for c in cases) for k in boundary.CATEGORIES}
+    assert count["shortest"] == 1 and count["longest"] <= 1
+    assert count["range-edge"] <= 4 * ranges
+    assert count["coverage"] <= len(edges)
+    assert count["exit"] <= dfa.n_states
+    # boundary value analysis keeps suites small: a handful of cases per transition
+    assert len(cases) <= 6 * ranges + 2 * dfa.n_states + 8
+
+
+@needs_compiler
+def test_range_edges_of_a_digit_position():
+    cases = suite(compiled(r"[0-9]{3}-x").dfa)
+    by_text = {c.text: c for c in cases}
+    # '/' and ':' are the neighbours of '0' and '9' in ASCII (common practice: ASCII table)
+    assert not by_text["/00-x"].expected and "just below" in by_text["/00-x"].reason
+    assert not by_text["0:0-x"].expected and "position 2" in by_text["0:0-x"].reason
+    assert by_text["009-x"].expected
+    assert by_text["0000-x"].category == "length-edge"
+
+
+@needs_compiler
+def test_cost_on_a_large_automaton():
+    lang = compiled(r"[A-Z]{2}[0-9]{2}[A-Z0-9]{4}[0-9]{7}([A-Z0-9]?){0,16}|[a-z]{1,60}@[a-z]{1,60}")
+    assert lang.dfa.n_states >= 100
+    start = time.perf_counter()
+    cases = suite(lang.dfa)
+    elapsed = time.perf_counter() - start
+    assert elapsed < 0.1 * 3, elapsed  # target 100 ms; 3x margin for loaded CI machines
+    assert cases
