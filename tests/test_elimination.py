@@ -1,0 +1,204 @@
+"""State elimination back to a pattern (pfuzz.elimination).
+
+The reference matcher is Python's ``re``: every pattern pfuzz writes is
+compiled by ``re`` and checked with ``re.fullmatch`` against the DFA on every
+string up to a length (exhaustive over small universes). Where the pattern
+compiler is present, the pattern is also compiled back with ``pfuzz.compile``
+and compared to the DFA exactly with ``distinguish``.
+"""
+
+from __future__ import annotations
+
+import itertools
+import re
+
+import pytest
+from hypothesis import given, settings, strategies as st
+
+from pfuzz.charset import UNIVERSES, CharSet
+from pfuzz.dfa import DFA, concatenate, difference, explore, from_strings, minimise, universal
+from pfuzz.elimination import (DEFAULT_LIMIT, NOTHING_TEXT, Algebra, class_text, escape_char,
+                               pattern_of)
+
+PRINTABLE = UNIVERSES["printable"]
+
+
+def table_dfa(alphabet: str, table, accepting) -> DFA:
+    """A minimal DFA from a raw table over one class per character."""
+    universe = CharSet.from_chars(alphabet)
+    classes = tuple(CharSet.single(c) for c in alphabet)
+    raw = DFA(universe, classes, tuple(tuple(row) for row in table), frozenset(accepting))
+    return minimise(raw)
+
+
+def counted(chars: CharSet, lo: int, hi: int | None, universe: CharSet = PRINTABLE) -> DFA:
+    """DFA of chars{lo,hi} built directly (a counter state machine), not from a pattern."""
+    rest = universe - chars
+    classes = [chars, rest] if rest else [chars]
+
+    def step(n, c):
+        if c != 0:
+            return None
+        if hi is None:
+            return min(n + 1, lo)
+        return n + 1 if n < hi else None
+
+    return minimise(explore(0, step, lambda n: n >= lo, classes, universe))
+
+
+def assert_same_as_re(dfa: DFA, pattern: str, alphabet: str, max_length: int) -> None:
+    """Reference: re.fullmatch (Python's re) on every string up to max_length."""
+    compiled = re.compile(pattern)
+    for length in range(max_length + 1):
+        for letters in itertools.product(alphabet, repeat=length):
+            text = "".join(letters)
+            assert dfa.accepts(text) == bool(compiled.fullmatch(text)), (pattern, text)
+
+
+def assert_round_trip(dfa: DFA, pattern: str) -> None:
+    """Exact check through pfuzz's own compiler, when it is installed."""
+    pytest.importorskip("pfuzz.compiler")
+    pytest.importorskip("pfuzz.syntax")
+    import pfuzz
+
+    back = pfuzz.compile(pattern, dfa.universe)
+    from pfuzz.dfa import distinguish
+    assert distinguish(back.dfa, dfa) is None, pattern
+
+
+tables = st.integers(1, 5).flatmap(lambda n: st.tuples(
+    st.sampled_from(["ab", "abc"]),
+    st.just(n),
+    st.lists(st.lists(st.integers(-1, n - 1), min_size=3, max_size=3), min_size=n, max_size=n),
+    st.sets(st.integers(0, n - 1)),
+))
+
+
+@settings(max_examples=300, deadline=None, database=None)
+@given(tables)
+def test_random_dfas_round_trip_through_re(spec):
+    alphabet, _n, rows, accepting = spec
+    dfa = table_dfa(alphabet, [row[:len(alphabet)] for row in rows], accepting)
+    pattern = pattern_of(dfa)
+    assert pattern is not None
+    assert_same_as_re(dfa, pattern, alphabet, 6)
+
+
+@settings(max_examples=60, deadline=None, database=None)
+@given(tables)
+def test_random_dfas_compile_back_exactly(spec):
+    alphabet, _n, rows, accepting = spec
+    dfa = table_dfa(alphabet, [row[:len(alphabet)] for row in rows], accepting)
+    assert_round_trip(dfa, pattern_of(dfa))
+
+
+def test_empty_language_and_empty_string():
+    nothing = table_dfa("ab", [[-1, -1]], set())
+    assert pattern_of(nothing) == NOTHING_TEXT
+    assert_same_as_re(nothing, NOTHING_TEXT, "ab", 3)
+    only_empty = table_dfa("ab", [[-1, -1]], {0})
+    assert pattern_of(only_empty) == ""
+
+
+@pytest.mark.parametrize("lo, hi, expected", [
+    (1, 3, "[0-9a-z]{1,3}"),
+    (0, 256, "[0-9a-z]{0,256}"),
+    (8, 64, "[0-9a-z]{8,64}"),
+    (3, None, "[0-9a-z]{3,}"),
+    (1, None, "[0-9a-z]+"),
+    (0, None, "[0-9a-z]*"),
+    (4, 4, "[0-9a-z]{4}"),
+])
+def test_counted_repeats_read_as_counts(lo, hi, expected):
+    chars = CharSet.range("a", "z") | CharSet.range("0", "9")
+    dfa = counted(chars, lo, hi)
+    assert pattern_of(dfa) == expected
+    sample = "a1" * 70
+    compiled = re.compile(expected)  # reference: Python's re
+    for n in range(0, 140, 7):
+        assert dfa.accepts(sample[:n]) == bool(compiled.fullmatch(sample[:n]))
+
+
+def test_finite_sets_are_factored():
+    months = ["Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"]
+    pattern = pattern_of(from_strings(months, PRINTABLE))
+    assert "J(?:an|u[ln])" in pattern and "Ma[ry]" in pattern
+    assert sorted(m for m in months if re.fullmatch(pattern, m)) == sorted(months)
+    days = [f"{d:02d}" for d in range(1, 32)]
+    pattern = pattern_of(from_strings(days, PRINTABLE))
+    assert len(pattern) < 30
+    everything = ["".join(p) for p in itertools.product("0123456789", repeat=2)]
+    assert [t for t in everything if re.fullmatch(pattern, t)] == days  # reference: Python's re
+
+
+def test_difference_of_two_formats_reads_well():
+    letters = counted(CharSet.range("A", "Z"), 2, 2)
+    dash = from_strings(["-"], PRINTABLE)
+    four = concatenate(letters, concatenate(dash, counted(CharSet.range("0", "9"), 4, 4)))
+    three_or_four = concatenate(letters, concatenate(dash, counted(CharSet.range("0", "9"), 3, 4)))
+    assert pattern_of(difference(three_or_four, four)) == "[A-Z]{2}-[0-9]{3}"
+    assert pattern_of(difference(four, three_or_four)) == NOTHING_TEXT
+
+
+def test_limit_returns_none_when_too_long():
+    words = [f"w{i:03d}x{i * 7 % 1000:03d}" for i in range(0, 300, 3)]
+    dfa = from_strings(words, PRINTABLE)
+    full = pattern_of(dfa, limit=10**6)
+    assert full is not None and len(full) > 40
+    assert pattern_of(dfa, limit=40) is None
+    assert DEFAULT_LIMIT == 1000
+    matched = [w for w in words if re.fullmatch(full, w)]
+    assert matched == words
+
+
+def test_class_text_picks_the_shorter_form():
+    assert class_text(PRINTABLE - CharSet.single("a"), PRINTABLE) == "[^a]"
+    assert class_text(CharSet.range("0", "9"), PRINTABLE) == "[0-9]"
+    assert class_text(PRINTABLE - CharSet.single("\n"), PRINTABLE) == "."
+    ascii_ = UNIVERSES["ascii"]
+    assert class_text(ascii_ - CharSet.single("\n"), ascii_) == "."
+    assert class_text(ascii_, ascii_) == r"[\x00-\x7f]"
+    bmp = UNIVERSES["bmp"]  # surrogates are outside the universe, so the gap is bridged
+    assert class_text(bmp, bmp) == r"[\x00-\uffff]"
+
+
+SPECIALS = ".^$*+?{}[]\\|()-&~ \t\n\r\x00\x7f\u00a0\u200b\uff21\U0001F600é"
+
+
+@pytest.mark.parametrize("char", list(SPECIALS))
+def test_every_special_character_is_escaped_for_re(char):
+    """Reference: Python's re reads the escaped text back as the character itself."""
+    assert re.fullmatch(escape_char(ord(char)), char)
+    universe = UNIVERSES["unicode"]
+    for chars in (CharSet.single(char), CharSet.single(char) | CharSet.single("a"),
+                  CharSet.range(ord(char), ord(char) + 2)):
+        text = class_text(chars, universe)
+        for point in range(max(ord(char) - 2, 0), ord(char) + 4):
+            assert bool(re.fullmatch(text, chr(point))) == (point in chars), (text, point)
+
+
+def test_special_characters_in_languages():
+    alphabet = "a.\n*"
+    universe = CharSet.from_chars(alphabet)
+    words = ["a.", "\n*", "**", ".\n", "a"]
+    dfa = from_strings(words, universe)
+    pattern = pattern_of(dfa)
+    assert_same_as_re(dfa, pattern, alphabet, 3)
+    star = concatenate(universal(universe), from_strings(["*"], universe))
+    assert_same_as_re(star, pattern_of(star), alphabet, 4)
+
+
+def test_algebra_laws():
+    algebra = Algebra(PRINTABLE)
+    a, b = algebra.sym(CharSet.single("a")), algebra.sym(CharSet.single("b"))
+    assert algebra.alt(a, b).text == "[ab]"
+    assert algebra.cat(a, algebra.rep(a, 0, None)).text == "a+"
+    assert algebra.rep(algebra.rep(a, 2, 3), 0, None).text == "(?:a{2,3})*"  # a^1 is not in it
+    assert algebra.rep(algebra.rep(a, 2, 3), 2, None).text == "a{4,}"
+    assert algebra.rep(algebra.rep(a, 1, 2), 0, 1).text == "a{0,2}"
+    assert algebra.alt(algebra.rep(a, 1, 3), algebra.rep(a, 4, 6)).text == "a{1,6}"
+    assert algebra.alt(algebra.rep(a, 1, 2), algebra.rep(a, 4, 6)).text == "a{1,2}|a{4,6}"
+    ab = algebra.cat(a, b)
+    assert algebra.alt(ab, algebra.cat(a, a)).text == "a[ab]"
+    assert algebra.rep(algebra.alt(algebra.rep(a, 0, None), b), 0, None).text == "[ab]*"
+    assert algebra.alt(a, algebra.cat(a, b)).text == "ab?"
