@@ -317,9 +317,11 @@ def _prune(plain, threads) -> frozenset:
     for s, obligations in threads:
         if s not in plain:
             by_state.setdefault(s, []).append(obligations)
+    if len(by_state) == len(threads):
+        return frozenset(threads)
     kept = []
     for s, sets in by_state.items():
         for obligations in sets:
-            if not any(other < obligations for other in sets):
+            if len(sets) == 1 or not any(other < obligations for other in sets):
                 kept.append((s, obligations))
     return frozenset(kept)

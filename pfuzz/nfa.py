@@ -145,16 +145,20 @@ class _Builder:
 
 
 def estimate_states(node: Node) -> int:
-    """The number of NFA states ``build`` would create for ``node`` (an upper bound)."""
+    """An upper bound on the number of states ``build`` creates for ``node``."""
+    return _fragment_states(node) + 1
+
+
+def _fragment_states(node: Node) -> int:
     if isinstance(node, (Chars, Anchor, Lookahead)):
         return 2
     if isinstance(node, Sequence):
-        return max(1, sum(estimate_states(item) for item in node.items))
+        return max(1, sum(_fragment_states(item) for item in node.items))
     if isinstance(node, Alternation):
-        return 2 + sum(estimate_states(option) for option in node.options)
+        return 2 + sum(_fragment_states(option) for option in node.options)
     if isinstance(node, Repeat):
         copies = node.min + 1 if node.max is None else node.max
-        return 3 + copies * (estimate_states(node.item) + 1)
+        return 3 + copies * (_fragment_states(node.item) + 1)
     raise TypeError(f"not a syntax tree node: {node!r}")
 
 

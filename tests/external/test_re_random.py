@@ -1,0 +1,153 @@
+"""Random patterns from a small grammar, checked exhaustively against Python's ``re``.
+
+Reference matcher: CPython's ``re.fullmatch`` (the standard library). Every
+pattern is drawn together with its syntax tree, so the compiler is judged on
+its own (``compile_tree``) and through the parser (``compile_dfa``); both must
+accept exactly the strings of length <= 6 over a 2- or 3-letter universe that
+``re.fullmatch`` accepts. Universes with '\\n' exercise the anchors, ``$``
+before a final newline and ``(?m)``; universes with both cases of a letter
+exercise ``(?i)``.
+"""
+
+from __future__ import annotations
+
+import itertools
+import re
+
+from hypothesis import given, settings, strategies as st
+
+from pfuzz.charset import ALL, CharSet
+from pfuzz.compiler import compile_dfa, compile_tree
+from pfuzz.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
+
+MAX_LENGTH = 6
+UNIVERSES = ["ab", "a\n", "ab\n", "aA\n", "aAb", "aB\n"]
+LETTERS = "abAB"
+
+
+def _fold(chars: str, flags: int) -> CharSet:
+    """Literal letters as re matches them: under IGNORECASE, both ASCII cases."""
+    if flags & re.IGNORECASE:
+        chars = chars + chars.swapcase()
+    return CharSet.from_chars(chars)
+
+
+@st.composite
+def atoms(draw, flags):
+    """(pattern text, tree) of one character atom."""
+    kind = draw(st.sampled_from(["letter", "letter", "class", "negated", "dot", "newline"]))
+    if kind == "letter":
+        ch = draw(st.sampled_from(LETTERS))
+        return ch, Chars(_fold(ch, flags))
+    if kind == "class":
+        members = "".join(sorted(set(draw(st.lists(st.sampled_from(LETTERS + "\n"), min_size=1, max_size=3)))))
+        return "[" + members.replace("\n", "\\n") + "]", Chars(_fold(members, flags))
+    if kind == "negated":
+        ch = draw(st.sampled_from(LETTERS + "\n"))
+        return "[^" + ch.replace("\n", "\\n") + "]", Chars(_fold(ch, flags).complement())
+    if kind == "dot":
+        dot = ALL if flags & re.DOTALL else CharSet.single("\n").complement()
+        return ".", Chars(dot)
+    return "\\n", Chars(CharSet.single("\n"))
+
+
+def anchor(text: str, flags: int):
+    multiline = bool(flags & re.MULTILINE)
+    kind = {"^": "line_start" if multiline else "text_start", "\\A": "text_start",
+            "$": "line_end" if multiline else "end_or_final_newline", "\\Z": "text_end"}[text]
+    return text, Anchor(kind)
+
+
+QUANTIFIERS = [("*", 0, None), ("+", 1, None), ("?", 0, 1), ("{2}", 2, 2), ("{1,3}", 1, 3),
+               ("{2,}", 2, None), ("{,2}", 0, 2), ("{0,1}", 0, 1)]
+
+
+@st.composite
+def nodes(draw, flags, depth, assertions):
+    """(pattern text, tree) from the grammar; ``assertions`` allows anchors and lookaheads."""
+    choices = ["atom", "atom", "atom"]
+    if assertions:
+        choices += ["anchor"]
+    if depth > 0:
+        choices += ["sequence", "sequence", "alternation", "repeat", "repeat"]
+        if assertions:
+            choices += ["lookahead"]
+    kind = draw(st.sampled_from(choices))
+    if kind == "atom":
+        return draw(atoms(flags))
+    if kind == "anchor":
+        return anchor(draw(st.sampled_from(["^", "$", "\\A", "\\Z"])), flags)
+    inner = nodes(flags, depth - 1, assertions)
+    if kind == "sequence":
+        parts = draw(st.lists(inner, min_size=2, max_size=4))
+        return "".join(p[0] for p in parts), Sequence(tuple(p[1] for p in parts))
+    if kind == "alternation":
+        parts = draw(st.lists(inner, min_size=2, max_size=3))
+        return "(?:" + "|".join(p[0] for p in parts) + ")", Alternation(tuple(p[1] for p in parts))
+    if kind == "repeat":
+        text, tree = draw(inner)
+        quantifier, low, high = draw(st.sampled_from(QUANTIFIERS))
+        lazy = "?" if draw(st.booleans()) else ""
+        return "(?:" + text + ")" + quantifier + lazy, Repeat(tree, low, high)
+    text, tree = draw(inner)
+    negative = draw(st.booleans())
+    return ("(?!" if negative else "(?=") + text + ")", Lookahead(tree, negative)
+
+
+FLAG_LETTERS = {re.MULTILINE: "m", re.DOTALL: "s", re.IGNORECASE: "i"}
+
+
+@st.composite
+def cases(draw, assertions=True, flag_choices=(0, re.MULTILINE, re.DOTALL, re.IGNORECASE)):
+    """A universe, the flags, the pattern text (with an inline flag prefix) and its tree."""
+    universe = draw(st.sampled_from(UNIVERSES))
+    flags = 0
+    for flag in flag_choices:
+        if flag and draw(st.booleans()):
+            flags |= flag
+    text, tree = draw(nodes(flags, 3, assertions))
+    prefix = "".join(letter for flag, letter in FLAG_LETTERS.items() if flags & flag)
+    return universe, (f"(?{prefix})" if prefix else "") + text, tree
+
+
+def strings(universe: str):
+    for n in range(MAX_LENGTH + 1):
+        for chars in itertools.product(universe, repeat=n):
+            yield "".join(chars)
+
+
+def check(universe: str, pattern: str, tree) -> None:
+    alphabet = CharSet.from_chars(universe)
+    by_tree = compile_tree(tree, alphabet, resolve=lambda node, u: node.chars & u)
+    by_text = compile_dfa(pattern, alphabet)
+    rx = re.compile(pattern)
+    for s in strings(universe):
+        expected = rx.fullmatch(s) is not None  # reference: re.fullmatch
+        assert by_tree.accepts(s) == expected, (pattern, universe, s, "tree")
+        assert by_text.accepts(s) == expected, (pattern, universe, s, "text")
+
+
+@settings(max_examples=600, deadline=None, database=None)
+@given(cases(assertions=False, flag_choices=(0, re.DOTALL, re.IGNORECASE)))
+def test_plain_patterns_agree_with_re(case):
+    check(*case)
+
+
+@settings(max_examples=1500, deadline=None, database=None)
+@given(cases())
+def test_patterns_with_anchors_and_lookaheads_agree_with_re(case):
+    check(*case)
+
+
+def test_grammar_covers_the_hard_cases():
+    """The classic anchor cases, with re.fullmatch as reference."""
+    for universe, pattern, tree in [
+        ("a\n", "a$", Sequence((Chars(CharSet.single("a")), Anchor("end_or_final_newline")))),
+        ("a\n", "(?=a$)a\\n", Sequence((Lookahead(Sequence((Chars(CharSet.single("a")),
+                                                            Anchor("end_or_final_newline"))), False),
+                                        Chars(CharSet.single("a")), Chars(CharSet.single("\n"))))),
+        ("ab\n", "(?m)a$\\n^b", Sequence((Chars(CharSet.single("a")), Anchor("line_end"),
+                                          Chars(CharSet.single("\n")), Anchor("line_start"),
+                                          Chars(CharSet.single("b"))))),
+    ]:
+        check(universe, pattern, tree)

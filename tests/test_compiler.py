@@ -1,0 +1,154 @@
+"""The compiler on hand-built trees: assertions, lookaheads, classes, limits."""
+
+from __future__ import annotations
+
+import itertools
+import time
+
+import pytest
+
+from pfuzz import dfa as automata
+from pfuzz.charset import ALL, UNIVERSES, CharSet
+from pfuzz.compiler import compile_tree
+from pfuzz.errors import StateLimitError
+from pfuzz.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
+
+PRINTABLE = UNIVERSES["printable"]
+NO_NEWLINE = CharSet.single("\n").complement()
+
+
+def lit(text: str):
+    items = tuple(Chars(CharSet.single(ch)) for ch in text)
+    return items[0] if len(items) == 1 else Sequence(items)
+
+
+def cls(lo: str, hi: str | None = None) -> Chars:
+    return Chars(CharSet.range(lo, hi or lo))
+
+
+def seq(*items):
+    return Sequence(tuple(items))
+
+
+def star(item):
+    return Repeat(item, 0, None)
+
+
+DOT_STAR = star(Chars(NO_NEWLINE))
+
+
+def compiled(tree, universe: str | CharSet, cap: int = automata.DEFAULT_STATE_CAP):
+    alphabet = CharSet.from_chars(universe) if isinstance(universe, str) else universe
+    return compile_tree(tree, alphabet, cap=cap, resolve=lambda node, u: node.chars & u)
+
+
+def accepted(dfa, universe: str, max_length: int) -> set[str]:
+    return {"".join(w) for n in range(max_length + 1)
+            for w in itertools.product(universe, repeat=n) if dfa.accepts("".join(w))}
+
+
+def test_literal_sequence_has_one_state_per_position():
+    dfa = compiled(lit("abc"), PRINTABLE)
+    assert dfa.n_states == 4 and dfa.accepts("abc") and not dfa.accepts("ab")
+
+
+def test_characters_outside_the_universe_give_the_empty_language():
+    assert compiled(lit("z"), "ab").is_empty()
+
+
+def test_text_end_then_more_text_is_empty():
+    assert compiled(seq(Anchor("text_end"), lit("a")), "a\n").is_empty()
+
+
+def test_dollar_accepts_before_a_final_newline_only():
+    dfa = compiled(seq(lit("a"), Anchor("end_or_final_newline"), star(lit("\n"))), "a\n")
+    assert accepted(dfa, "a\n", 4) == {"a", "a\n"}
+
+
+def test_line_anchors_need_the_newline_context():
+    tree = seq(lit("a"), Anchor("line_end"), lit("\n"), Anchor("line_start"), lit("b"))
+    assert accepted(compiled(tree, "ab\n", 4), "ab\n", 4) == {"a\nb"}
+    blocked = seq(lit("a"), Anchor("line_start"), lit("b"))
+    assert compiled(blocked, "ab\n").is_empty()
+
+
+def test_lookahead_body_judges_dollar_against_the_whole_rest():
+    # (?=a$) holds when the rest is "a" or "a\n"; the a·U* reading would accept "aa".
+    tree = seq(Lookahead(seq(lit("a"), Anchor("end_or_final_newline")), False),
+               star(Chars(ALL)))
+    assert accepted(compiled(tree, "a\n", 4), "a\n", 4) == {"a", "a\n"}
+
+
+def test_lookahead_body_sees_the_context_before_it():
+    # a\n(?=^a)a with a line-start anchor inside the body: the body starts after '\n'.
+    good = seq(lit("a\n"), Lookahead(seq(Anchor("line_start"), lit("a")), False), lit("a"))
+    assert accepted(compiled(good, "a\n", 4), "a\n", 4) == {"a\na"}
+    bad = seq(lit("a"), Lookahead(seq(Anchor("line_start"), lit("a")), False), lit("a"))
+    assert compiled(bad, "a\n").is_empty()
+    negated = seq(lit("a"), Lookahead(Anchor("text_start"), True), lit("a"))
+    assert accepted(compiled(negated, "a\n", 3), "a\n", 3) == {"aa"}
+
+
+def test_lookahead_at_the_start_is_an_intersection():
+    # (?=X)Y == L(Y) ∩ L(X)·U* and (?!X)Y == L(Y) − L(X)·U* when X has no end assertion.
+    x = seq(Repeat(cls("a"), 1, 2), cls("b"))
+    y = star(Alternation((cls("a"), cls("b"))))
+    ly, lx = compiled(y, "ab"), automata.with_any_suffix(compiled(x, "ab"))
+    positive = compiled(seq(Lookahead(x, False), y), "ab")
+    negative = compiled(seq(Lookahead(x, True), y), "ab")
+    assert automata.distinguish(positive, automata.intersection(ly, lx)) is None
+    assert automata.distinguish(negative, automata.difference(ly, lx)) is None
+
+
+def password_rule(classes):
+    """^(?=.*C1)(?=.*C2)...(?=.{8,64}$).*$ for the given character classes."""
+    looks = [Lookahead(seq(DOT_STAR, c), False) for c in classes]
+    length = Lookahead(seq(Repeat(Chars(NO_NEWLINE), 8, 64), Anchor("end_or_final_newline")), False)
+    return seq(Anchor("text_start"), *looks, length, DOT_STAR, Anchor("end_or_final_newline"))
+
+
+def test_password_rule_equals_the_intersection_of_its_parts():
+    classes = [cls("0", "9"), cls("a", "z"), cls("A", "Z"), Chars(CharSet.from_chars("!#$%&*"))]
+    start = time.perf_counter()
+    rule = compiled(password_rule(classes), PRINTABLE)
+    elapsed = time.perf_counter() - start
+    expected = compiled(Repeat(Chars(NO_NEWLINE), 8, 64), PRINTABLE)
+    for c in classes:
+        expected = automata.intersection(expected, compiled(seq(DOT_STAR, c, DOT_STAR), PRINTABLE))
+    assert automata.distinguish(rule, expected) is None
+    # Four "seen a class" bits and lengths 0..64 (then 65 = "too long" collapses to dead).
+    assert rule.n_states <= 16 * 65
+    assert elapsed < 2.0
+
+
+def test_wide_classes_cost_few_symbol_classes():
+    word = Chars(CharSet.of([(0x30, 0x39), (0x41, 0x5A), (0x61, 0x7A), (0xC0, 0x2FF)]))
+    dfa = compiled(Repeat(word, 3, 30), UNIVERSES["unicode"])
+    assert len(dfa.classes) == 2 and dfa.n_states == 31
+
+
+def test_the_state_cap_stops_determinisation():
+    ab = Alternation((cls("a"), cls("b")))
+    tree = seq(star(ab), cls("a"), Repeat(ab, 12, 12))
+    with pytest.raises(StateLimitError, match="1,000 states"):
+        compiled(tree, "ab", cap=1000)
+
+
+def test_the_state_cap_bounds_the_expanded_nfa():
+    tree = Repeat(Repeat(cls("a"), 1000, 1000), 1000, 1000)
+    start = time.perf_counter()
+    with pytest.raises(StateLimitError):
+        compiled(tree, "a", cap=10_000)
+    assert time.perf_counter() - start < 1.0
+
+
+def test_bounded_repeat_grows_linearly():
+    # [a-z0-9]{1,n} has n + 1 states; doubling n should roughly double the time.
+    chars = Chars(CharSet.of([(0x61, 0x7A), (0x30, 0x39)]))
+    timings = []
+    for n in (256, 1024):
+        start = time.perf_counter()
+        dfa = compiled(Repeat(chars, 1, n), PRINTABLE)
+        timings.append(time.perf_counter() - start)
+        assert dfa.n_states == n + 1
+    assert timings[1] < 10 * timings[0] + 0.05
