@@ -43,3 +43,7 @@ class UniverseError(PfuzzError, ValueError):
 
 class EmptyLanguageError(PfuzzError, ValueError):
     """Sampling or explaining was asked of a language with no strings."""
+
+
+class PfuzzWarning(UserWarning):
+    """Something worth saying that is not an error (e.g. fewer distinct strings than asked)."""

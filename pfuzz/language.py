@@ -136,9 +136,9 @@ class Language:
         return self.counter.lengths(max_length)
 
     def sample(self, n: int, *, min_length: int | None = None, max_length: int | None = None,
-               seed=None, lengths="even", unique: bool = False) -> list[str]:
+               seed=None, lengths="even", unique: bool = False, method: str = "auto") -> list[str]:
         return self.counter.sample(n, min_length=min_length, max_length=max_length,
-                                   seed=seed, lengths=lengths, unique=unique)
+                                   seed=seed, lengths=lengths, unique=unique, method=method)
 
     def rank(self, text: str) -> int:
         return self.counter.rank(text)
