@@ -7,10 +7,11 @@ import time
 
 import pytest
 
+import pfuzz
 from pfuzz import dfa as automata
 from pfuzz.charset import ALL, UNIVERSES, CharSet
 from pfuzz.compiler import compile_tree
-from pfuzz.errors import StateLimitError
+from pfuzz.errors import PatternError, StateLimitError
 from pfuzz.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
 
 PRINTABLE = UNIVERSES["printable"]
@@ -152,3 +153,70 @@ def test_bounded_repeat_grows_linearly():
         timings.append(time.perf_counter() - start)
         assert dfa.n_states == n + 1
     assert timings[1] < 10 * timings[0] + 0.05
+
+
+# -- through the parser and the Language façade (values derived by hand) -----------------
+
+def lang(pattern: str, universe: str = "printable", **options):
+    return pfuzz.compile(pattern, universe, **options)
+
+
+def test_fixed_length_code():
+    code = lang(r"[A-Z]{2}[0-9]{4}")
+    # One state per position 0..6; classes [A-Z], [0-9] and every other character.
+    assert (code.states, len(code.classes)) == (7, 3)
+    assert code.accepts("AB1234") and not code.accepts("AB123") and not code.accepts("ab1234")
+    assert code.is_finite() and (code.min_length, code.max_length) == (6, 6)
+
+
+def test_unbounded_language_facts_and_complement():
+    pairs = lang(r"(?:ab|ba)*", "[ab]")
+    # start (accepting) -a-> expects b -b-> start; start -b-> expects a -a-> start.
+    assert pairs.states == 3 and not pairs.is_finite()
+    assert (pairs.min_length, pairs.max_length) == (0, None)
+    other = pairs.complement()
+    # Completed: 3 states plus the dead one, which becomes accepting and live.
+    assert other.states == 4 and other.shortest() == "a"
+    assert pairs.distinguish(other) == ""
+
+
+def test_boolean_operations_match_hand_written_equivalents():
+    starts_and_ends_with_a = lang(r"[ab]*a", "[ab]") & lang(r"a[ab]*", "[ab]")
+    assert starts_and_ends_with_a.distinguish(lang(r"a|a[ab]*a", "[ab]")) is None
+    assert (lang(r"a{2}") | lang(r"a{3}")).equivalent(lang(r"a{2,3}"))
+    assert (lang(r"a{0,4}") - lang(r"a{2}")).equivalent(lang(r"|a|aaa|aaaa"))
+
+
+def test_distinguish_returns_the_shortlex_least_difference():
+    assert lang(r"a*").distinguish(lang(r"a{0,3}")) == "aaaa"
+    # [ab]{2} minus aa is {ab, ba, bb}; "ab" comes first.
+    assert lang(r"[ab]{2}", "[ab]").distinguish(lang(r"aa", "[ab]")) == "ab"
+    assert lang(r"[ab]{2}", "[ab]").distinguish(lang(r"aa|ab|ba", "[ab]")) == "bb"
+
+
+def test_empty_languages():
+    for pattern in [r"a\Zb", r"(?=b)a", r"a^b", r"[^\s\S]"]:
+        empty = lang(pattern, "ascii")
+        assert empty.is_empty() and empty.states == 0, pattern
+
+
+def test_trailing_dollar_changes_nothing_under_full_matching():
+    # $ may match before a final '\n', but full matching must still consume that '\n'.
+    assert lang(r"a$", "ascii").equivalent(lang(r"a\Z", "ascii"))
+    assert lang(r"a$\n", "ascii").equivalent(lang(r"a\n", "ascii"))
+    assert lang(r"a$\n\n", "ascii").is_empty()
+    assert lang(r"(?m)a$\n\n", "ascii").equivalent(lang(r"a\n\n", "ascii"))
+
+
+def test_state_cap_reaches_the_caller():
+    with pytest.raises(StateLimitError, match="state cap"):
+        lang(r"(a|b)*a(a|b){12}", "[ab]", state_cap=2000)
+
+
+@pytest.mark.parametrize("pattern, position", [
+    (r"a(?<=b)", 1), (r"(?=a(?<!b))", 4), (r"(a)\1", 3), (r"\bx", 0), ("(a", 0),
+])
+def test_unsupported_constructs_raise_pattern_errors_with_positions(pattern, position):
+    with pytest.raises(PatternError) as caught:
+        lang(pattern)
+    assert caught.value.position == position

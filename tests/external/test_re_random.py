@@ -14,6 +14,7 @@ from __future__ import annotations
 import itertools
 import re
 
+import pytest
 from hypothesis import given, settings, strategies as st
 
 from pfuzz.charset import ALL, CharSet
@@ -99,7 +100,7 @@ FLAG_LETTERS = {re.MULTILINE: "m", re.DOTALL: "s", re.IGNORECASE: "i"}
 
 @st.composite
 def cases(draw, assertions=True, flag_choices=(0, re.MULTILINE, re.DOTALL, re.IGNORECASE)):
-    """A universe, the flags, the pattern text (with an inline flag prefix) and its tree."""
+    """A universe, an inline flag prefix such as "(?mi)", the pattern body and its tree."""
     universe = draw(st.sampled_from(UNIVERSES))
     flags = 0
     for flag in flag_choices:
@@ -107,7 +108,7 @@ def cases(draw, assertions=True, flag_choices=(0, re.MULTILINE, re.DOTALL, re.IG
             flags |= flag
     text, tree = draw(nodes(flags, 3, assertions))
     prefix = "".join(letter for flag, letter in FLAG_LETTERS.items() if flags & flag)
-    return universe, (f"(?{prefix})" if prefix else "") + text, tree
+    return universe, (f"(?{prefix})" if prefix else ""), text, tree
 
 
 def strings(universe: str):
@@ -116,7 +117,8 @@ def strings(universe: str):
             yield "".join(chars)
 
 
-def check(universe: str, pattern: str, tree) -> None:
+def check(universe: str, prefix: str, body: str, tree) -> None:
+    pattern = prefix + body
     alphabet = CharSet.from_chars(universe)
     by_tree = compile_tree(tree, alphabet, resolve=lambda node, u: node.chars & u)
     by_text = compile_dfa(pattern, alphabet)
@@ -127,27 +129,72 @@ def check(universe: str, pattern: str, tree) -> None:
         assert by_text.accepts(s) == expected, (pattern, universe, s, "text")
 
 
+def check_modes(universe: str, prefix: str, body: str) -> None:
+    """re.match and re.search are full matches of P(?s:.*) and (?s:.*)P(?s:.*)."""
+    alphabet = CharSet.from_chars(universe)
+    as_match = compile_dfa(f"{prefix}(?:{body})(?s:.*)", alphabet)
+    as_search = compile_dfa(f"{prefix}(?s:.*)(?:{body})(?s:.*)", alphabet)
+    rx = re.compile(prefix + body)
+    for s in strings(universe):
+        assert as_match.accepts(s) == (rx.match(s) is not None), (body, s)  # reference: re.match
+        assert as_search.accepts(s) == (rx.search(s) is not None), (body, s)  # reference: re.search
+
+
 @settings(max_examples=600, deadline=None, database=None)
 @given(cases(assertions=False, flag_choices=(0, re.DOTALL, re.IGNORECASE)))
 def test_plain_patterns_agree_with_re(case):
     check(*case)
 
 
-@settings(max_examples=1500, deadline=None, database=None)
+@settings(max_examples=1200, deadline=None, database=None)
 @given(cases())
 def test_patterns_with_anchors_and_lookaheads_agree_with_re(case):
     check(*case)
 
 
-def test_grammar_covers_the_hard_cases():
-    """The classic anchor cases, with re.fullmatch as reference."""
-    for universe, pattern, tree in [
-        ("a\n", "a$", Sequence((Chars(CharSet.single("a")), Anchor("end_or_final_newline")))),
-        ("a\n", "(?=a$)a\\n", Sequence((Lookahead(Sequence((Chars(CharSet.single("a")),
-                                                            Anchor("end_or_final_newline"))), False),
-                                        Chars(CharSet.single("a")), Chars(CharSet.single("\n"))))),
-        ("ab\n", "(?m)a$\\n^b", Sequence((Chars(CharSet.single("a")), Anchor("line_end"),
-                                          Chars(CharSet.single("\n")), Anchor("line_start"),
-                                          Chars(CharSet.single("b"))))),
-    ]:
-        check(universe, pattern, tree)
+@settings(max_examples=300, deadline=None, database=None)
+@given(cases())
+def test_match_and_search_modes_agree_with_re(case):
+    universe, prefix, body, _ = case
+    check_modes(universe, prefix, body)
+
+
+# Hand-picked classics: anchors and lookaheads where validators commonly go wrong.
+CLASSICS = [
+    ("1\n", r"\d+$"),                     # under fullmatch the final '\n' must still be consumed
+    ("1\n", r"\d+$\n"),                  # ... which is why this accepts "1\n"
+    ("ab\n", r"(?m)^a$\n^b$"),
+    ("a\n", r"(?m)^$"),
+    ("a\n", r"(?m)(?:^a$\n?)+"),
+    ("a\n", r"(?m)a$\n\n"),
+    ("a\n", r"a(?=\n$)\n"),
+    ("a\n", r"(?=a$).*\n?"),
+    ("a\n", r"(?!.*\n).*\n?"),
+    ("a\n", r"(?:^|a|\n)+"),
+    ("a\n", r"(?s).*$\n"),
+    ("a\n", r"$"),
+    ("a\n", r"\Z"),
+    ("a1\n", r"^(?=.*\d)(?=.*[a-z]).{2,4}$"),
+    ("a1\n", r"(?m)(?:^(?=.*1)[a1]+$\n?)*"),
+    ("aA\n", r"(?i)[^a]\n?A"),
+    ("aB\n", r"(?i)(?!b)[a-z]+"),
+]
+
+
+@pytest.mark.parametrize("universe, pattern", CLASSICS)
+def test_classic_anchor_cases(universe, pattern):
+    alphabet = CharSet.from_chars(universe)
+    compiled = compile_dfa(pattern, alphabet)
+    for s in strings(universe):
+        assert compiled.accepts(s) == (re.fullmatch(pattern, s) is not None), s  # reference: re
+    flags = re.match(r"\(\?[a-z]+\)", pattern)
+    prefix = flags.group() if flags else ""
+    check_modes(universe, prefix, pattern[len(prefix):])
+
+
+def test_dollar_before_a_final_newline():
+    # re.match(r"\d+$", "12\n") succeeds, re.fullmatch does not (reference: re).
+    assert re.match(r"\d+$", "12\n") and not re.fullmatch(r"\d+$", "12\n")
+    digits = CharSet.from_chars("12\n")
+    assert not compile_dfa(r"\d+$", digits).accepts("12\n")
+    assert compile_dfa(r"(?:\d+$)(?s:.*)", digits).accepts("12\n")
