@@ -39,6 +39,9 @@ def _register() -> None:
 #: One line per command module; each module exports ``COMMANDS``.
 COMMAND_MODULES = [
     "info",
+    "sampling",
+    "corpus",
+    "diff",
 ]
 
 _register()
