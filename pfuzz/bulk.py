@@ -20,8 +20,9 @@ decoded from code-point arrays (uint8/latin-1 or uint32/UTF-32) with a
 separator character outside the universe, never via numpy string arrays, so
 U+0000 survives.
 
-Cost: tables O(L × E) floats for lengths up to L over E edges (12 bytes per
-cell); sampling O(N × L) vectorised work for N strings.
+Cost: tables O(L × (E + n)) cells for lengths up to L over E edges and n
+states (a float64 threshold and an int32 alias, 12 bytes per cell), built
+with O(L) vectorised passes; sampling O(N × L) vectorised work for N strings.
 
 Deviation from exact uniformity (u = 2^-53, d = the largest out-degree, w =
 the largest edge width, r ≤ L): the only rounding in the counts is one
@@ -29,20 +30,22 @@ product and at most d-1 additions per state and level (scalings by powers of
 two are exact), all of non-negative terms, so each computed T[r][s] is exact
 up to a relative error γ_{(d+1)r}, γ_k = k·u/(1-k·u); each q̂[r][e] then has
 relative error at most γ_{2(d+1)r+1}. The alias table of a row adds at most
-(d-1) absolute roundings of size d·u per slot, the threshold draw 2^-53 per
-slot, and the character draw ⌊v·w⌋ from a 53-bit uniform v at most 2^-53 per
-character. So one step's choice is within total variation
+k-1 roundings of size k·u to each of its k thresholds (2·d²·u in total
+variation), the slot draw ⌊x·k⌋ from a 53-bit uniform x (with a padding slot
+for the rare x·k = k) at most u per slot, and the character draw ⌊v·w⌋ at
+most u per character. So one step's choice is within total variation
 
-    η_r ≤ γ_{2(d+1)r+1}/2 + d²·u + w·u
+    η_r ≤ γ_{2(d+1)r+1}/2 + (2d² + d + w)·u
 
 of the exact one, and by the coupling (hybrid) argument a string of length L
-is drawn within total variation Σ_{r≤L} η_r ≤ (d+1)·L·(L+1)·u + L·(d² + w)·u
-(to first order) of the uniform distribution on strings of length L. For a
-date pattern (d = 4, w = 10, L = 10) that is below 10^-13; for L = 10^4 over
-printable ASCII with d = 5 below 10^-7. ``transition_bound`` returns the
-per-entry bound that the tests check against exact fractions. Terms smaller
-than 2^-1074 of a state's largest term are dropped as zero (a further
-relative error below 2^-1000 per level, not worth a line in the bound).
+is drawn within total variation Σ_{r≤L} η_r ≈ (d+1)·L·(L+1)·u + L·(2d² + d + w)·u
+of the uniform distribution on strings of length L (``string_bound``). For
+a date pattern (d = 4, w = 10, L = 10) that is about 10^-13; for L = 10^4
+over printable ASCII (d = 5, w = 95) below 10^-7. ``transition_bound`` and
+``step_bound`` give the per-entry and per-step bounds that the tests check
+against exact fractions. Terms smaller than 2^-1074 of a state's largest
+term are dropped as zero (a further relative error below 2^-1000 per level,
+not worth a line in the bound).
 """
 
 from __future__ import annotations
@@ -70,8 +73,8 @@ class FloatTables:
     def __init__(self, counter, max_length: int):
         self.max_length = max_length
         self._edges(counter)
-        self.q, self.start_mantissa, self.start_exponent = self._probabilities(max_length)
-        self.prob, self.alias = self._alias_tables(self.q)
+        q, self.start_mantissa, self.start_exponent = self.probabilities(max_length)
+        self.prob, self.alias = self._alias_tables(q)
         self._prob_flat = self.prob.reshape(-1)
         self._alias_flat = self.alias.reshape(-1)
         self._separator, self._codes_dtype, self._encoding = _codec(counter.dfa.universe)
@@ -121,7 +124,7 @@ class FloatTables:
                 key += 1
             self._range_key = np.array(starts, dtype=np.int64)
 
-    def _probabilities(self, max_length: int):
+    def probabilities(self, max_length: int):
         """q[r][e] for r = 0..max_length (row 0 unused), plus the start state's counts."""
         n, src, tgt = self.n_states, self.src, self.tgt
         mantissa = np.where(self.accepting, 0.5, 0.0)
@@ -146,7 +149,7 @@ class FloatTables:
         """Thresholds and aliases per (level, slot); an alias is a slot index."""
         levels = q.shape[0]
         prob = np.zeros((levels, self.n_slots))
-        alias = np.broadcast_to(np.arange(self.n_slots, dtype=np.int64),
+        alias = np.broadcast_to(np.arange(self.n_slots, dtype=np.int32),
                                 (levels, self.n_slots)).copy()
         for k in np.unique(self.fanout).tolist():
             if k == 0:
@@ -174,8 +177,20 @@ class FloatTables:
 
     def transition_bound(self, remaining: int) -> float:
         """Bound on |q̂/q - 1| for an entry at this remaining length (see the module docstring)."""
-        k = 2 * (int(self.fanout.max()) + 1) * remaining + 1
-        return k * _UNIT / (1 - k * _UNIT)
+        return _gamma(2 * (self._degree + 1) * remaining + 1)
+
+    def step_bound(self, remaining: int) -> float:
+        """Bound on the total variation of one step's choice at this remaining length."""
+        d, w = self._degree, int(self.width.max(initial=1))
+        return self.transition_bound(remaining) / 2 + (2 * d * d + d + w) * _UNIT
+
+    def string_bound(self, length: int) -> float:
+        """Bound on the total variation from uniform of a whole string of ``length``."""
+        return sum(self.step_bound(r) for r in range(1, length + 1))
+
+    @property
+    def _degree(self) -> int:
+        return int(self.fanout.max(initial=1))
 
     def step_distribution(self, remaining: int, state: int) -> np.ndarray:
         """The law over the state's edges that its alias table at this level draws
@@ -282,6 +297,10 @@ def robin_hood(scaled: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         done[every, small] = True
         value[every, large] -= 1.0 - v
     return prob, alias
+
+
+def _gamma(k: int) -> float:
+    return k * _UNIT / (1 - k * _UNIT)
 
 
 def _codec(universe) -> tuple[int, type, str]:

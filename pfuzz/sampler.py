@@ -120,6 +120,9 @@ _LENGTHS_HELP = ("lengths must be 'even', 'proportional', a length, a list of le
 
 def _ranged_plan(counter, min_length, max_length, mode, method):
     low, high = counter.bounds(min_length, max_length)
+    if low > high:
+        shortest = f" (the shortest string has length {low})" if min_length is None else ""
+        raise EmptyLanguageError(f"the length range {low} to {high} is empty{shortest}")
     exact = method == "exact" or high <= EXACT_MAX_LENGTH
     if exact:
         candidates = [k for k in range(low, high + 1) if counter.count(k)]
@@ -211,7 +214,7 @@ def _unique(counter, n, candidates, weights, rng, method) -> list[str]:
     if available <= n:
         if available < n:
             warnings.warn(f"only {available} distinct strings have the lengths asked for; "
-                          f"returning all of them instead of {n}", PfuzzWarning, stacklevel=4)
+                          f"returning all of them instead of {n}", PfuzzWarning, stacklevel=5)
         everything = [s for k in candidates for s in counter.enumerate(k, k)]
         return _shuffled(everything, rng)
     quotas = _quotas(n, candidates, weights, capacity, rng, method)

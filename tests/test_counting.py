@@ -1,0 +1,126 @@
+"""Tests for pfuzz.counting: count tables, bounds, rank/unrank, shortlex enumeration.
+
+External references (OEIS, brute force with ``re.fullmatch``) live in
+tests/external/test_counting_oeis.py and test_counting_reference.py; these
+tests check the module's own invariants and edge cases.
+"""
+
+from __future__ import annotations
+
+import itertools
+
+import pytest
+
+import pfuzz
+from pfuzz.charset import CharSet
+from pfuzz.counting import UNBOUNDED_SPAN, Counter
+from pfuzz.dfa import empty, explore, minimise
+
+
+def counter(pattern: str, universe="printable") -> Counter:
+    return pfuzz.compile(pattern, universe=universe).counter
+
+
+def test_counts_are_exact_big_integers():
+    c = counter(r"[0-9]{40}")
+    assert c.count(40) == 10**40
+    assert c.count(39) == 0 and c.count(41) == 0
+    assert c.total() == 10**40
+
+
+def test_counts_table_includes_zero_lengths_and_defaults():
+    c = counter(r"ab|[xy]{3}")
+    assert c.counts() == {0: 0, 1: 0, 2: 1, 3: 8}
+    assert c.counts(None) == {2: 1, 3: 8}
+    assert c.counts(0, 4) == {0: 0, 1: 0, 2: 1, 3: 8, 4: 0}
+    assert c.total() == 9
+    assert c.lengths() == [2, 3]
+
+
+def test_unbounded_language_uses_the_documented_default_bound():
+    c = counter(r"x[0-9]+")
+    assert c.total() is None
+    assert c.bounds(None, None) == (2, 2 + UNBOUNDED_SPAN)
+    assert c.bounds(10, None) == (10, 10 + UNBOUNDED_SPAN)
+    assert c.lengths() == list(range(2, 3 + UNBOUNDED_SPAN))
+
+
+def test_empty_language():
+    c = Counter(empty(CharSet.range("a", "b")))
+    assert c.count(0) == 0 and c.total() == 0 and c.lengths() == []
+    with pytest.raises(pfuzz.EmptyLanguageError):
+        c.sample(1)
+
+
+def test_empty_string_language():
+    c = counter(r"")
+    assert c.count(0) == 1 and c.total() == 1
+    assert c.unrank(0, 0) == "" and c.rank("") == 0
+    assert list(c.enumerate(0, 3)) == [""]
+
+
+def test_rank_orders_by_code_point_across_interleaved_classes():
+    # After "a" the classes [b-c x-z] and [d-w] interleave: "q" sorts between "c" and "x".
+    c = counter(r"a[b-cx-z]1|a[d-w]22")
+    strings = [c.unrank(3, i) for i in range(c.count(3))]
+    assert strings == sorted(strings)
+    assert [c.rank(s) for s in strings] == list(range(len(strings)))
+    mixed = counter(r"[ace]x{2}|[bdf]yy|[bdf]z|q..")
+    for length in mixed.lengths():
+        listed = [mixed.unrank(length, i) for i in range(mixed.count(length))]
+        assert listed == sorted(listed)
+
+
+def test_rank_rejects_strings_outside_the_language():
+    c = counter(r"[a-c]{2}")
+    for text in ["", "a", "ad", "abc", "A1"]:
+        with pytest.raises(ValueError):
+            c.rank(text)
+    with pytest.raises(IndexError):
+        c.unrank(2, 9)
+    with pytest.raises(IndexError):
+        c.unrank(3, 0)
+
+
+def test_rank_unrank_round_trip_over_wide_unicode_classes():
+    c = counter(r"\w{2}-[^a-z]", universe="unicode")
+    size = c.count(4)
+    for index in [0, 1, size // 3, size // 2, size - 1]:
+        text = c.unrank(4, index)
+        assert c.rank(text) == index
+    assert c.unrank(4, size - 1) > c.unrank(4, 0)
+
+
+def test_enumerate_matches_unrank_and_counts():
+    c = counter(r"(0|1[01]*)(\.[0-9])?")
+    low, high = 1, 5
+    listed = list(c.enumerate(low, high))
+    expected = [c.unrank(n, i) for n in range(low, high + 1) for i in range(c.count(n))]
+    assert listed == expected
+    assert len(listed) == sum(c.counts(low, high).values())
+
+
+def test_sharded_enumeration_equals_the_whole():
+    c = counter(r"[ab]{1,3}c?")
+    whole = list(c.enumerate(0, 4))
+    for shard in [1, 3, 7, 100]:
+        pieces = [list(c.enumerate(0, 4, start, start + shard))
+                  for start in range(0, len(whole), shard)]
+        assert list(itertools.chain.from_iterable(pieces)) == whole
+    assert list(c.enumerate(0, 4, 5)) == whole[5:]
+    assert list(c.enumerate(0, 4, 5, 5)) == []
+
+
+def test_counter_accepts_an_untrimmed_dfa():
+    # A hand-built automaton with a state that cannot reach acceptance (state 2).
+    classes = (CharSet.single("a"), CharSet.single("b"))
+    universe = CharSet.range("a", "b")
+
+    def step(config, c):
+        return {(0, 0): 1, (0, 1): 2, (1, 0): 1, (2, 0): 2}.get((config, c))
+
+    raw = explore(0, step, lambda s: s == 1, classes, universe)
+    c = Counter(raw)
+    assert [c.count(n) for n in range(4)] == [0, 1, 1, 1]
+    assert Counter(minimise(raw)).counts(0, 5) == c.counts(0, 5)
+    assert list(c.enumerate(0, 3)) == ["a", "aa", "aaa"]
