@@ -1,0 +1,180 @@
+"""``pfuzz count`` and ``pfuzz sample``: exact counts per length, uniform strings by length.
+
+Thin skins over ``Language.counts`` and ``Counter.sample``. Standard output
+carries data only; notes (a defaulted length bound, escaping, fewer distinct
+strings than asked) and the progress bar go to standard error.
+"""
+
+from __future__ import annotations
+
+import contextlib
+import json
+import sys
+import warnings
+
+import click
+
+from ..counting import UNBOUNDED_SPAN
+from ..errors import PfuzzWarning
+from ..sampler import METHODS
+from .common import (compile_language, emit, escape_text, fail, format_option, language_options,
+                     max_length_option, min_length_option, out_option, pattern_input,
+                     report_errors, seed_option)
+
+#: A progress bar is shown from this many strings on when standard error is a terminal ...
+PROGRESS_TTY_MIN = 10_000
+#: ... and from this many on in any case.
+PROGRESS_MIN = 1_000_000
+
+
+@contextlib.contextmanager
+def _big_integers():
+    """Let counts with more than 4300 digits print (Python's default int-to-str limit)."""
+    previous = sys.get_int_max_str_digits()
+    sys.set_int_max_str_digits(0)
+    try:
+        yield
+    finally:
+        sys.set_int_max_str_digits(previous)
+
+
+def _note(message: str) -> None:
+    click.echo(f"pfuzz: {message}", err=True)
+
+
+def _bounds(lang, min_length, max_length) -> tuple[int, int]:
+    """The length range, with a note on stderr when an unbounded language's bound was defaulted."""
+    if min_length is not None and max_length is not None and min_length > max_length:
+        fail(f"--min-length {min_length} is greater than --max-length {max_length}")
+    low, high = lang.counter.bounds(min_length, max_length)
+    if max_length is None and not lang.is_finite():
+        _note(f"the language is unbounded: lengths up to {high} ({UNBOUNDED_SPAN} above the "
+              "shortest considered); set --max-length to change it")
+    return low, high
+
+
+@click.command("count")
+@pattern_input
+@language_options
+@click.option("--length", type=click.IntRange(min=0), default=None,
+              help="Count only strings of exactly this length.")
+@min_length_option
+@max_length_option
+@format_option(("text", "csv", "json"), "text")
+@out_option
+@report_errors
+def count(pattern, universe, flags, state_cap, length, min_length, max_length, fmt, out):
+    """Count exactly the strings PATTERN accepts, per length, and in total.
+
+    The table lists every length in the range (zeros included); csv ends with
+    a 'total' row. Without --max-length an unbounded language is counted up
+    to a default bound, said on stderr.
+
+    \b
+    Example:
+      pfuzz count '[A-Z]{2}[0-9]{4}'
+      pfuzz count '[a-z]{1,8}@[a-z]{2,6}\\.org' --max-length 12 --format csv
+    """
+    if length is not None and (min_length is not None or max_length is not None):
+        fail("give --length, or --min-length/--max-length, not both")
+    if length is not None:
+        min_length = max_length = length
+    lang = compile_language(pattern, universe, flags, state_cap)
+    low, high = _bounds(lang, min_length, max_length)
+    table = lang.counts(low, high)
+    with _big_integers():
+        emit(_render_counts(lang, table, fmt, defaulted=max_length is None), out)
+
+
+def _render_counts(lang, table: dict[int, int], fmt: str, defaulted: bool) -> str:
+    total = sum(table.values())
+    if fmt == "json":
+        document = {
+            "pattern": lang.pattern, "universe": lang.universe_name,
+            "min_length": min(table), "max_length": max(table),
+            "max_length_defaulted": defaulted and not lang.is_finite(),
+            "counts": [{"length": k, "count": v} for k, v in table.items()],
+            "total": total, "language_total": lang.total,
+        }
+        return json.dumps(document, ensure_ascii=False, indent=2) + "\n"
+    if fmt == "csv":
+        rows = ["length,count", *(f"{k},{v}" for k, v in table.items()), f"total,{total}"]
+        return "\r\n".join(rows) + "\r\n"
+    width = max(len("length"), len(str(max(table))))
+    lines = [f"{'length':>{width}}  count"]
+    lines += [f"{k:>{width}}  {v}" for k, v in table.items()]
+    lines.append(f"{'total':>{width}}  {total}")
+    return "\n".join(lines) + "\n"
+
+
+@click.command("sample")
+@pattern_input
+@language_options
+@click.option("-n", "how_many", type=click.IntRange(min=0), default=10, show_default=True,
+              help="How many strings to write.")
+@seed_option
+@min_length_option
+@max_length_option
+@click.option("--lengths", type=click.Choice(["even", "proportional"]), default="even",
+              show_default=True,
+              help="even: each length in range equally often; proportional: uniform over all strings.")
+@click.option("--unique", is_flag=True, help="Distinct strings only (all of them, if fewer exist).")
+@click.option("--method", type=click.Choice(METHODS), default="auto", show_default=True,
+              help="exact: big-integer walk; bulk: float alias tables (bounded deviation); "
+                   "auto: bulk from 1,000 strings or lengths above 1,000.")
+@format_option(("text", "jsonl"), "text")
+@out_option
+@report_errors
+def sample(pattern, universe, flags, state_cap, how_many, seed, min_length, max_length, lengths,
+           unique, method, fmt, out):
+    """Write N strings PATTERN accepts, uniformly random within each length.
+
+    text writes one string per line, with control characters, newlines and
+    backslashes escaped (said on stderr when it happens); jsonl writes one
+    JSON string per line and keeps every character exactly.
+
+    \b
+    Example:
+      pfuzz sample '[A-Z]{2}[0-9]{4}' -n 5 --seed 7
+      pfuzz sample '[a-z]+@[a-z]+\\.org' -n 1000 --max-length 20 --unique --format jsonl
+    """
+    lang = compile_language(pattern, universe, flags, state_cap)
+    low, high = _bounds(lang, min_length, max_length)
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", PfuzzWarning)
+        strings = _sample_with_progress(lang, how_many, low, high, seed, lengths, unique, method)
+    for warning in caught:
+        if issubclass(warning.category, PfuzzWarning):
+            _note(f"warning: {warning.message}")
+    emit(_render_strings(strings, fmt), out)
+
+
+def _sample_with_progress(lang, n, low, high, seed, lengths, unique, method) -> list[str]:
+    show = n >= PROGRESS_MIN or (n >= PROGRESS_TTY_MIN and sys.stderr.isatty())
+    arguments = dict(min_length=low, max_length=high, seed=seed, lengths=lengths,
+                     unique=unique, method=method)
+    if not show:
+        return lang.counter.sample(n, **arguments)
+    with click.progressbar(length=n, label="sampling", file=sys.stderr) as bar:
+        return lang.counter.sample(n, progress=bar.update, **arguments)
+
+
+def _render_strings(strings: list[str], fmt: str) -> str:
+    if fmt == "jsonl":
+        return "".join(json.dumps(s, ensure_ascii=False) + "\n" for s in strings)
+    lines, escaped = [], 0
+    for s in strings:
+        # Same test as common.needs_escape, in C speed: printable and no backslash.
+        if s.isprintable() and "\\" not in s:
+            lines.append(s)
+        else:
+            lines.append(escape_text(s))
+            escaped += 1
+    if escaped:
+        _note(f"{escaped} of {len(strings)} strings hold control characters, newlines or "
+              "backslashes and are written with Python-style escapes; "
+              "use --format jsonl to keep them exactly")
+    return "".join(line + "\n" for line in lines)
+
+
+COMMANDS = [count, sample]
