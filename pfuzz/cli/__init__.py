@@ -40,7 +40,6 @@ def _register() -> None:
 COMMAND_MODULES = [
     "info",
     "sampling",
-    "corpus",
     "diff",
 ]
 
