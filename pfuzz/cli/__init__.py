@@ -41,6 +41,7 @@ COMMAND_MODULES = [
     "info",
     "sampling",
     "diff",
+    "draw",
 ]
 
 _register()
