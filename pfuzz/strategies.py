@@ -5,7 +5,10 @@ language's exact ranking (``pfuzz.counting``): first the index of a length
 among the lengths that have strings, then a rank below the count of that
 length, then ``unrank``. Hypothesis shrinks integers toward zero, so a
 failing example shrinks by itself toward the shortest length and, within it,
-the shortlex-smallest string, with no shrinking code of our own. The strings
+the shortlex-smallest string, with no shrinking code of our own. That is
+exact for conditions that, once true, stay true further on in shortlex order
+within a length; for other conditions (say "contains a q") it is Hypothesis's
+usual heuristic and may stop at a local minimum. The strings
 come from our automata; Hypothesis's own pattern-based string strategy is
 not used.
 
