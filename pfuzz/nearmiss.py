@@ -296,7 +296,7 @@ def kinds_of(dfa: DFA, text: str, distance: int = 1) -> tuple[str, ...]:
 
 def sample_rejects(dfa: DFA, n: int, *, distance: int = 1, kinds: "Sequence[str] | None" = None,
                    seed=None, min_length: int | None = None, max_length: int | None = None,
-                   edges: bool = False) -> list[Reject]:
+                   edges: bool = False, progress=None) -> list[Reject]:
     """``n`` near-miss rejects, uniform by length, each with its kinds and nearest witness.
 
     With ``kinds`` None the texts are drawn from the whole near-miss language;
@@ -306,7 +306,8 @@ def sample_rejects(dfa: DFA, n: int, *, distance: int = 1, kinds: "Sequence[str]
     Within a stratum, a length is chosen uniformly among the lengths in range
     that have strings, then a string uniformly at that length
     (``pfuzz.counting``). ``edges`` draws from the range-edge languages (see
-    the module docstring). Same seed, same output.
+    the module docstring). ``progress``, if given, is called with the number
+    of rejects finished since its last call. Same seed, same output.
     """
     if isinstance(n, bool) or not isinstance(n, int) or n < 0:
         raise PfuzzError(f"the number of rejects must be an integer >= 0, got {n!r}")
@@ -320,7 +321,17 @@ def sample_rejects(dfa: DFA, n: int, *, distance: int = 1, kinds: "Sequence[str]
     draws = [c.sample(share, min_length=min_length, max_length=max_length, seed=rng)
              for c, share in zip(filled, _shares(n, len(filled)))]
     texts = [batch[i] for i in range(max(map(len, draws))) for batch in draws if i < len(batch)]
-    return [_reject(dfa, text, distance) for text in texts]
+    rejects = []
+    for text in texts:
+        rejects.append(_reject(dfa, text, distance))
+        if progress is not None and len(rejects) % _PROGRESS_STEP == 0:
+            progress(_PROGRESS_STEP)
+    if progress is not None and len(rejects) % _PROGRESS_STEP:
+        progress(len(rejects) % _PROGRESS_STEP)
+    return rejects
+
+
+_PROGRESS_STEP = 1024
 
 
 def _shares(n: int, parts: int) -> list[int]:

@@ -40,6 +40,7 @@ def _register() -> None:
 COMMAND_MODULES = [
     "info",
     "sampling",
+    "rejects",
     "diff",
     "draw",
 ]

@@ -1,0 +1,143 @@
+"""``pfuzz reject`` and ``pfuzz explain``: near-miss rejects, and why a text is rejected.
+
+Thin skins over ``pfuzz.nearmiss.sample_rejects`` and ``pfuzz.nearmiss.explain``.
+Standard output carries data only; notes and the progress bar go to
+standard error. ``explain`` exits 0 when the pattern accepts the text and 1
+when it rejects it, like ``grep``.
+"""
+
+from __future__ import annotations
+
+import functools
+import json
+import sys
+
+import click
+
+from ..nearmiss import KINDS, sample_rejects
+from .common import (EXIT_DIFFERENT, compile_language, emit, escape_text, format_option,
+                     language_options, max_length_option, min_length_option, out_option,
+                     pattern_input, report_errors, seed_option)
+from .sampling import PROGRESS_MIN, PROGRESS_TTY_MIN, _render_strings
+
+
+@click.command("reject")
+@pattern_input
+@language_options
+@click.option("-n", "how_many", type=click.IntRange(min=0), default=10, show_default=True,
+              help="How many rejects to write.")
+@click.option("--distance", type=click.IntRange(min=1), default=1, show_default=True,
+              help="Edit distance (optimal string alignment) from the nearest valid string.")
+@click.option("--kind", "kinds", type=click.Choice(KINDS), multiple=True,
+              help="Only edits of this kind (repeatable); several kinds share the rejects "
+                   "equally. Default: the whole near-miss language.")
+@click.option("--edges", is_flag=True,
+              help="Substitute and insert only range-edge characters (lo-1, hi+1 of each "
+                   "transition's ranges), the classic off-by-one values.")
+@seed_option
+@min_length_option
+@max_length_option
+@format_option(("text", "jsonl"), "text")
+@out_option
+@report_errors
+def reject(pattern, universe, flags, state_cap, how_many, distance, kinds, edges, seed,
+           min_length, max_length, fmt, out):
+    """Write N near-miss rejects of PATTERN: strings it rejects within a few edits of one it accepts.
+
+    Rejects are uniform within each length of the near-miss language. text
+    writes one reject per line (escaped as for 'pfuzz sample'); jsonl writes
+    one object per line: the reject, the kinds of edit that reach it, its
+    nearest valid string (witness), the distance and the edits that turn the
+    witness into the reject.
+
+    \b
+    Example:
+      pfuzz reject '[A-Z]{2}[0-9]{4}' -n 4 --kind delete --kind swap
+      pfuzz reject '[0-9]{4}-[0-9]{2}' -n 100 --edges --format jsonl --out rejects.jsonl
+    """
+    lang = compile_language(pattern, universe, flags, state_cap)
+    arguments = dict(distance=distance, kinds=list(kinds) or None, seed=seed,
+                     min_length=min_length, max_length=max_length, edges=edges)
+    show = how_many >= PROGRESS_MIN or (how_many >= PROGRESS_TTY_MIN and sys.stderr.isatty())
+    if show:
+        with click.progressbar(length=how_many, label="rejects", file=sys.stderr) as bar:
+            rejects = sample_rejects(lang.dfa, how_many, progress=bar.update, **arguments)
+    else:
+        rejects = sample_rejects(lang.dfa, how_many, **arguments)
+    if fmt == "jsonl":
+        emit("".join(json.dumps(r.as_dict(), ensure_ascii=False) + "\n" for r in rejects), out)
+    else:
+        emit(_render_strings([r.text for r in rejects], "text"), out)
+
+
+def _text_after_pattern_file(func):
+    """With --pattern-file, the one positional argument is TEXT, not PATTERN."""
+    @functools.wraps(func)
+    def wrapper(*args, pattern_arg=None, text=None, pattern_file=None, **kwargs):
+        if pattern_file is not None and text is None:
+            pattern_arg, text = None, pattern_arg
+        if text is None:
+            raise click.UsageError("give the TEXT to explain")
+        return func(*args, pattern_arg=pattern_arg, text=text, pattern_file=pattern_file,
+                    **kwargs)
+    return wrapper
+
+
+@click.command("explain")
+@_text_after_pattern_file
+@pattern_input
+@click.argument("text", required=False)
+@language_options
+@format_option(("text", "json"), "text")
+@out_option
+@report_errors
+def explain(pattern, text, universe, flags, state_cap, fmt, out):
+    """Say whether PATTERN accepts TEXT and, if not, the nearest valid string and the edits.
+
+    The nearest valid string (witness) is the shortest, then alphabetically
+    first, among the valid strings at the least edit distance (optimal string
+    alignment). The edits turn the witness into TEXT; the caret line marks
+    where they are in TEXT. Exit status: 0 accepted, 1 rejected, 2 bad input.
+
+    \b
+    Example:
+      pfuzz explain '[A-Z]{2}[0-9]{4}' 'AB12O4'
+      pfuzz explain --pattern-file rule.txt 'x-42' --format json
+    """
+    lang = compile_language(pattern, universe, flags, state_cap)
+    why = lang.explain(text)
+    if fmt == "json":
+        document = {"pattern": lang.pattern, "universe": lang.universe_name, **why.as_dict(),
+                    "edits_text": [str(e) for e in why.edits]}
+        emit(json.dumps(document, ensure_ascii=False, indent=2) + "\n", out)
+    else:
+        emit(render_explanation(why), out)
+    if not why.accepted:
+        sys.exit(EXIT_DIFFERENT)
+
+
+def render_explanation(why) -> str:
+    """The verdict, the text with a caret under each edit, the witness and the edits."""
+    shown = [escape_text(ch) for ch in why.text]
+    if why.accepted:
+        return f"accepted  {''.join(shown)}\n"
+    columns = [0]
+    for piece in shown:
+        columns.append(columns[-1] + len(piece))
+    marks = set()
+    for edit in why.edits:
+        marks.update(range(edit.position, edit.position + (2 if edit.kind == "swap" else 1)))
+    caret = [" "] * (columns[-1] + 1)
+    for p in marks:
+        caret[columns[p]] = "^"
+    plural = "edit" if why.distance == 1 else "edits"
+    lines = [f"rejected  {why.distance} {plural} from the nearest valid string",
+             f"text      {''.join(shown)}",
+             f"          {''.join(caret).rstrip()}",
+             f"nearest   {escape_text(why.witness)}",
+             "edits     (turning the nearest valid string into the text)"]
+    lines += [f"          {edit}" for edit in why.edits]
+    return "\n".join(lines) + "\n"
+
+
+COMMANDS = [reject, explain]
