@@ -58,3 +58,20 @@ def ranked_strings(language: Language, min_length: int | None, max_length: int |
             lambda index: counter.unrank(length, index))
 
     return st.integers(0, len(lengths) - 1).flatmap(lambda i: strings_of(lengths[i]))
+
+
+def rejected(pattern_or_language: "str | Language", *, distance: int = 1,
+             kinds: "list[str] | None" = None, min_length: int | None = None,
+             max_length: int | None = None, universe: str = DEFAULT_UNIVERSE,
+             flags: int = 0) -> st.SearchStrategy[str]:
+    """Near-miss rejects: strings the pattern rejects within OSA ``distance`` of one it accepts.
+
+    Drawn like ``accepted``, over the near-miss language
+    (``Language.near_misses``; ``kinds`` restricts the edits as in
+    ``pfuzz.nearmiss``), so a failing example shrinks toward the shortest,
+    shortlex-smallest reject. ``Language.explain`` gives a reject's nearest
+    valid string and edits.
+    """
+    language = _language(pattern_or_language, universe, flags)
+    return ranked_strings(language.near_misses(distance, kinds), min_length, max_length,
+                          what="near-miss rejects")

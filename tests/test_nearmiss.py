@@ -215,3 +215,32 @@ def test_uniform_within_a_length():
     observed = [sum(1 for r in draws if r.text == s) for s in support]
     assert sum(observed) == len(draws)
     assert chisquare(observed).pvalue > 1e-3
+
+
+# -- the Hypothesis strategy (pfuzz.strategies.rejected) -------------------------------------
+
+def test_rejected_strategy_draws_rejects():
+    from hypothesis import given, settings
+
+    from pfuzz.strategies import rejected
+
+    @settings(max_examples=60, deadline=None, database=None)
+    @given(rejected(PLATE, kinds=["replace", "swap"]))
+    def check(text):
+        assert re.fullmatch(PLATE, text) is None and len(text) == 6  # reference: Python's re
+
+    check()
+
+
+def test_rejected_strategy_shrinks_to_the_shortlex_least_reject():
+    from hypothesis import find, settings
+
+    from pfuzz.strategies import rejected
+
+    quiet = settings(database=None, max_examples=200)
+    # [0-9]{3}: the shortest near misses have two digits ("00" is least); at
+    # length 4 the least is a space (U+0020, the first printable) before "000".
+    assert find(rejected("[0-9]{3}"), lambda s: True, settings=quiet) == "00"
+    assert find(rejected("[0-9]{3}"), lambda s: len(s) == 4, settings=quiet) == " 000"
+    with pytest.raises(EmptyLanguageError):
+        rejected("[ab]*", universe="[ab]")
