@@ -19,6 +19,7 @@ from pfuzz import boundary
 from pfuzz.boundary import UNBOUNDED_SPAN, Case, coverage, suite, transitions
 from pfuzz.charset import CharSet
 from pfuzz.dfa import explore, from_strings, minimise
+from pfuzz.paths import Guide
 
 #: Realistic validator patterns; every case's verdict is checked against re.fullmatch.
 PATTERNS = [
@@ -234,9 +235,12 @@ def test_size_bounds(pattern):
     ranges = sum(len(label.ranges) for _, label, _ in edges)
     count = {k: sum(c.category == k for c in cases) for k in boundary.CATEGORIES}
     assert count["shortest"] == 1 and count["longest"] <= 1
-    assert count["range-edge"] <= 4 * ranges
+    assert count["range-edge"] <= 4 * len({r for _, label, _ in edges for r in label.ranges})
     assert count["coverage"] <= len(edges)
-    assert count["exit"] <= dfa.n_states
+    allowed = {s: CharSet() for s in range(dfa.n_states)}
+    for s, label, _ in edges:
+        allowed[s] = allowed[s] | label
+    assert count["exit"] <= len(set(allowed.values())) <= dfa.n_states
     # boundary value analysis keeps suites small: a handful of cases per transition
     assert len(cases) <= 6 * ranges + 2 * dfa.n_states + 8
 
@@ -246,10 +250,26 @@ def test_range_edges_of_a_digit_position():
     by_text = {c.text: c for c in cases}
     # '/' and ':' are the neighbours of '0' and '9' in ASCII (common practice: ASCII table)
     assert not by_text["/00-x"].expected and "just below" in by_text["/00-x"].reason
-    assert not by_text["0:0-x"].expected and "position 2" in by_text["0:0-x"].reason
-    assert by_text["009-x"].expected
+    assert not by_text[":00-x"].expected and "position 1" in by_text[":00-x"].reason
+    assert by_text["900-x"].expected
+    # the range [0-9] recurs at positions 2 and 3: tested at its first position only
+    assert "0:0-x" not in by_text and "09" + "0-x" not in by_text
     assert by_text["000-xx"].category == "length-edge" and not by_text["000-xx"].expected
     assert "one character shorter" in by_text["000-"].reason and not by_text["000-"].expected
+
+
+@pytest.mark.parametrize("pattern", PATTERNS)
+def test_every_distinct_range_is_tested_at_its_first_state(pattern):
+    dfa = compiled(pattern).dfa
+    guide = Guide(dfa)
+    texts = {c.text: c.expected for c in suite(dfa)}
+    first: dict[tuple[int, int], tuple[int, int]] = {}
+    for s, label, t in transitions(dfa):
+        for lo, hi in label.ranges:
+            first.setdefault((lo, hi), (s, t))
+    for (lo, hi), (s, t) in first.items():
+        for point in (lo, hi):
+            assert texts[guide.prefix(s) + chr(point) + guide.completion(t)] is True
 
 
 def test_cost_on_a_large_automaton():
