@@ -27,6 +27,7 @@ from .charset import MAX_CODE_POINT, CharSet
 CATEGORY_LETTERS = "dDsSwW"
 
 
+@functools.cache
 def category(letter: str, ascii_only: bool = False) -> CharSet:
     """The set ``\\<letter>`` matches (letter one of ``dDsSwW``), under re.ASCII if ``ascii_only``."""
     if letter not in CATEGORY_LETTERS:

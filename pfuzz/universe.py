@@ -39,7 +39,8 @@ def universe_label(spec: "str | CharSet | None") -> str:
 
 
 def _parse_class(spec: str) -> CharSet:
-    from .syntax import Chars, parse
+    from .syntax import parse
+    from .tree import Chars
 
     try:
         tree = parse(spec)

@@ -1,0 +1,213 @@
+"""The parser: tree shapes, flags, verbose mode, refusals with positions, re's syntax errors, speed."""
+
+from __future__ import annotations
+
+import re
+import time
+
+import pytest
+
+from pfuzz.categories import category
+from pfuzz.charset import ALL, CharSet
+from pfuzz.errors import PatternError
+from pfuzz.syntax import parse
+from pfuzz.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
+
+I, A, S = int(re.I), int(re.A), int(re.S)
+
+
+def char(text: str, position: int, source: str | None = None, flags: int = 0) -> Chars:
+    return Chars(CharSet.from_chars(text), position, text if source is None else source, flags)
+
+
+# -- tree shapes ---------------------------------------------------------------------
+
+def test_sequence_of_repeated_classes():
+    assert parse("[A-Z]{2}[0-9]{4}") == Sequence((
+        Repeat(Chars(CharSet.range("A", "Z"), 0, "[A-Z]"), 2, 2, 5),
+        Repeat(Chars(CharSet.range("0", "9"), 8, "[0-9]"), 4, 4, 13),
+    ), 0)
+
+
+def test_groups_dissolve_and_lazy_repeats_are_plain_repeats():
+    assert parse("(ab)(?:c)(?P<n>d)") == Sequence(tuple(char(c, p) for c, p in zip("abcd", (1, 2, 7, 15))), 0)
+    assert parse("(?:ab)*?") == Repeat(Sequence((char("a", 3), char("b", 4)), 0), 0, None, 6)
+    assert parse("a{,3}?") == Repeat(char("a", 0), 0, 3, 1)
+
+
+def test_alternation_keeps_options_and_empty_ones():
+    assert parse("ab|c|") == Alternation((Sequence((char("a", 0), char("b", 1)), 0), char("c", 3), Sequence((), 5)), 0)
+    assert parse("") == Sequence((), 0)
+    assert parse("()") == Sequence((), 0)
+
+
+def test_alternation_of_single_atoms_is_one_class_as_in_re():
+    # re's parser turns a|[bc]|\d into one set (re/_parser.py, _parse_sub); so do we.
+    merged = parse(r"a|[bc]|\d")
+    assert merged == Chars(CharSet.from_chars("abc") | category("d"), 0, r"a|[bc]|\d", 0)
+    assert isinstance(parse("a|[^b]"), Alternation)  # a negated class is not merged
+    assert isinstance(parse("(?i:a)|b"), Alternation)  # nor a group with flags
+    assert parse("(?:a|b)|c").source == "a|b|c"
+
+
+def test_quantifier_applies_to_the_last_item_past_comments_and_verbose_space():
+    assert parse("ab(?#note)*") == Sequence((char("a", 0), Repeat(char("b", 1), 0, None, 10)), 0)
+    assert parse("(?x) a b *") == Sequence((char("a", 5), Repeat(char("b", 7), 0, None, 9)), 5)
+
+
+def test_brace_that_is_not_a_quantifier_is_a_literal():
+    assert parse("a{}") == Sequence((char("a", 0), char("{", 1), char("}", 2)), 0)
+    assert parse("a{,}") == Repeat(char("a", 0), 0, None, 1)
+    assert parse("a{1,x}") == Sequence(tuple(char(c, p) for p, c in enumerate("a{1,x}")), 0)
+    assert parse("{") == char("{", 0)
+
+
+def test_dot_anchors_and_lookaheads():
+    assert parse(".") == Chars(ALL - CharSet.single("\n"), 0, ".", 0)
+    assert parse("(?s).") == Chars(ALL, 4, ".", S)
+    assert parse(r"^\A$\Z") == Sequence((Anchor("text_start", 0), Anchor("text_start", 1),
+                                         Anchor("end_or_final_newline", 3), Anchor("text_end", 4)), 0)
+    assert parse("(?m)^$") == Sequence((Anchor("line_start", 4), Anchor("line_end", 5)), 4)
+    assert parse("(?=a)(?!b)") == Sequence((Lookahead(char("a", 3), False, 0), Lookahead(char("b", 8), True, 5)), 0)
+
+
+def test_classes():
+    assert parse("[]a-]").chars == CharSet.from_chars("]a-")
+    assert parse("[^]]").chars == CharSet.single("]").complement()
+    assert parse("[-a]").chars == CharSet.from_chars("-a")
+    assert parse(r"[\b]").chars == CharSet.single("\b")
+    assert parse(r"[\d_]").chars == category("d") | CharSet.single("_")
+    assert parse(r"[^\W\d]").chars == (category("W") | category("d")).complement()
+    assert parse(r"[\x41-\u0043\101]").chars == CharSet.range("A", "C")
+    assert parse(r"[\1\7]").chars == CharSet.from_chars([1, 7])  # octal inside a class, as in re
+
+
+def test_categories_and_ascii_mode():
+    for letter in "dDsSwW":
+        assert parse("\\" + letter).chars == category(letter)
+        assert parse("(?a)\\" + letter).chars == category(letter, ascii_only=True)
+        assert parse("\\" + letter, re.ASCII).chars == category(letter, ascii_only=True)
+    assert parse(r"(?a)(?u:\w)").chars == category("w")
+
+
+# -- flags ---------------------------------------------------------------------------
+
+def test_ignorecase_is_kept_on_atoms_with_their_source():
+    assert parse("(?i)k") == char("k", 4, flags=I)
+    assert parse("k", re.I) == char("k", 0, flags=I)
+    assert parse("(?i)a(?-i:b)") == Sequence((char("a", 4, flags=I), char("b", 10)), 4)
+    assert parse("(?ia)[k]").flags == I | A
+
+
+def test_flag_values_and_inline_flags_agree():
+    for letters, value in [("i", re.I), ("s", re.S), ("m", re.M), ("x", re.X), ("a", re.A), ("u", re.U)]:
+        pattern = "^a . b$"
+        assert parse(f"(?{letters})" + pattern) == _shifted(parse(pattern, value), len(letters) + 3)
+
+
+def _shifted(node, offset):
+    """The same tree with every position moved by ``offset``."""
+    import dataclasses
+
+    changes = {"position": node.position + offset}
+    for name in ("items", "options"):
+        if hasattr(node, name):
+            changes[name] = tuple(_shifted(child, offset) for child in getattr(node, name))
+    if hasattr(node, "item"):
+        changes["item"] = _shifted(node.item, offset)
+    return dataclasses.replace(node, **changes)
+
+
+def test_verbose_mode_skips_space_and_comments_outside_classes():
+    tree = parse("(?x) a \\  [ #] # comment \n b{2, 3}")
+    assert [n.source for n in tree.items] == ["a", "\\ ", "[ #]", "b", "{", "2", ",", "3", "}"]
+    assert parse("a b", re.X) == Sequence((char("a", 0), char("b", 2)), 0)
+    assert parse("(?x:a b)c d") == Sequence((char("a", 4), char("b", 6), char("c", 8), char(" ", 9), char("d", 10)), 0)
+
+
+def test_sources_are_standalone_patterns_for_the_same_atom():
+    # Reference: Python's re; each atom's source, compiled alone with its flags, matches its characters.
+    tree = parse(r"(?x) \x41 \N{EM DASH} \101 [ a-c] \  \u00e9 \0")
+    for node in tree.items:
+        for point in list(node.chars)[:5]:
+            assert re.fullmatch(node.source, chr(point), node.flags)
+
+
+# -- refusals: constructs re accepts but pfuzz does not ------------------------------
+
+REFUSED = [
+    (r"(a)\1", 3, "backreference"),
+    (r"(?P<n>a)(?P=n)", 8, "backreference"),
+    (r"(a)(?(1)b|c)", 3, "conditional"),
+    (r"a*+", 1, "possessive"),
+    (r"a++", 1, "possessive"),
+    (r"a?+", 1, "possessive"),
+    (r"xa{2}+", 2, "possessive"),
+    (r"(?>ab)", 0, "atomic"),
+    (r"x(?<=a)", 1, "lookbehind"),
+    (r"(?<!a)b", 0, "lookbehind"),
+    (r"(?<=a+)b", 0, "lookbehind"),  # re rejects this one without a position; ours names the column
+    (r"a\b", 1, "word boundary"),
+    (r"\Ba", 0, "word boundary"),
+    (r"(?t)a", 0, "TEMPLATE"),
+]
+
+
+@pytest.mark.parametrize("pattern, position, construct", REFUSED)
+def test_unsupported_constructs_are_refused_at_their_first_character(pattern, position, construct):
+    with pytest.raises(PatternError) as caught:
+        parse(pattern)
+    assert caught.value.position == position
+    assert construct in caught.value.message
+    assert "pfuzz supports the regular subset of re" in caught.value.message or construct == "TEMPLATE"
+    assert caught.value.pattern == pattern
+
+
+def test_bad_arguments_are_pattern_errors():
+    for pattern, flags in [(b"a", 0), ("a", re.LOCALE), ("a", re.DEBUG), (3, 0), ("a", "i")]:
+        with pytest.raises(PatternError):
+            parse(pattern, flags)
+
+
+RE_REJECTS = [
+    "a(", "a)", "[a", "*a", "a**", "a{3,2}", "(?i", "(?z)", "[b-a]", r"\x4", r"\u12", r"\U00110000",
+    r"\N{NO SUCH NAME}", r"\N", r"\q", "\\", r"\400", r"[\8]", "(?P=x)", "(?-a:b)", "a(?i)", "(?#x",
+    r"[\d-z]", "(?<a)", "a|*", "(?P<1>a)", r"(a)\2", "(?P<n>a)(?P<n>b)", "^*", "(?i-i:a)", "x{2}{3}",
+]
+
+
+@pytest.mark.parametrize("pattern", RE_REJECTS)
+def test_syntax_errors_carry_res_message_and_position(pattern):
+    # Reference: Python's re; its error message and re.error.pos.
+    with pytest.raises(re.error) as expected:
+        re.compile(pattern)
+    with pytest.raises(PatternError) as caught:
+        parse(pattern)
+    assert caught.value.message == expected.value.msg
+    assert caught.value.position == expected.value.pos
+
+
+def test_value_errors_of_re_are_pattern_errors():
+    for pattern, flags in [("(?u)a", re.A), ("a{4294967295}", 0), ("(" * 2000 + ")" * 2000, 0)]:
+        with pytest.raises(PatternError):
+            parse(pattern, flags)
+
+
+# -- speed ---------------------------------------------------------------------------
+
+REALISTIC = [
+    r"^(?=.*[A-Z])(?=.*\d)(?!.*\s)[\w!@#$%^&*-]{8,64}$",
+    r"(?i)[a-z0-9._%+-]+@[a-z0-9.-]+\.[a-z]{2,}",
+    r"(?x) (\d{4}) - (0[1-9]|1[0-2]) - (0[1-9]|[12]\d|3[01])  # date",
+]
+
+
+def test_realistic_patterns_parse_in_well_under_a_millisecond():
+    for pattern in REALISTIC:
+        parse(pattern)  # warm-up: category tables and re's cache
+        timings = []
+        for _ in range(30):
+            start = time.perf_counter()
+            parse(pattern)
+            timings.append(time.perf_counter() - start)
+        assert sorted(timings)[len(timings) // 2] < 2e-3, (pattern, timings)
