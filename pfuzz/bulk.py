@@ -53,7 +53,7 @@ from __future__ import annotations
 import numpy as np
 
 #: Samples walked together; bounds the working memory to CHUNK × length codes.
-CHUNK = 1 << 16
+CHUNK = 1 << 14
 #: Edges with at most this many characters in all get a direct key → character table;
 #: wider ones (Unicode-sized classes) are searched among their ranges.
 CHAR_TABLE_LIMIT = 1 << 20
@@ -74,8 +74,8 @@ class FloatTables:
         self.max_length = max_length
         self._edges(counter)
         q, self.start_mantissa, self.start_exponent = self.probabilities(max_length)
-        self.prob, self.alias = self._alias_tables(q)
-        self._prob_flat = self.prob.reshape(-1)
+        self.limit, self.alias = self._alias_tables(q)
+        self._limit_flat = self.limit.reshape(-1)
         self._alias_flat = self.alias.reshape(-1)
         self._separator, self._codes_dtype, self._encoding = _codec(counter.dfa.universe)
 
@@ -146,7 +146,8 @@ class FloatTables:
         return q, np.array(start_m), np.array(start_e, dtype=np.int64)
 
     def _alias_tables(self, q):
-        """Thresholds and aliases per (level, slot); an alias is a slot index."""
+        """Limits and aliases per (level, slot): slot j of a state with threshold p has
+        limit j + p, so a draw x·k keeps slot ⌊x·k⌋ when x·k < limit; an alias is a slot index."""
         levels = q.shape[0]
         prob = np.zeros((levels, self.n_slots))
         alias = np.broadcast_to(np.arange(self.n_slots, dtype=np.int32),
@@ -163,7 +164,8 @@ class FloatTables:
             alias[:, cols] = local + self.base[states][None, :, None]
             heaviest = q[:, edges].argmax(axis=2) + self.base[states][None, :]
             alias[:, self.base[states] + k] = heaviest
-        return prob, alias
+        local = np.arange(self.n_slots) - np.repeat(self.base, self.fanout + 1)
+        return prob + local, alias
 
     # -- questions --------------------------------------------------------------------
     def has_strings(self, length: int) -> bool:
@@ -199,7 +201,7 @@ class FloatTables:
         first = int(self.base[state])
         law = np.zeros(k + 1)
         for j in range(k):
-            p = self.prob[remaining, first + j]
+            p = self.limit[remaining, first + j] - j  # exact: Sterbenz
             law[j] += p
             law[int(self.alias[remaining, first + j]) - first] += 1.0 - p
         return law[:k] / k
@@ -209,17 +211,22 @@ class FloatTables:
         """One string per entry of ``lengths`` (each must have strings), in that order."""
         if len(lengths) and lengths.max() > self.max_length:
             raise ValueError("tables too short for the lengths asked")
-        uniform = len(lengths) == 0 or lengths.min() == lengths.max()
-        order = np.arange(len(lengths)) if uniform else np.argsort(-lengths, kind="stable")
+        if len(lengths) and lengths.min() == lengths.max():
+            return self._sample_sorted(lengths, generator, progress)
+        order = np.argsort(-lengths, kind="stable")
         result = np.empty(len(lengths), dtype=object)
-        for a in range(0, len(lengths), CHUNK):
-            idx = order[a:a + CHUNK]
-            sorted_lengths = lengths[idx]
-            codes = self._walk(sorted_lengths, generator)
-            result[idx] = self._decode(codes, sorted_lengths)
-            if progress is not None:
-                progress(len(idx))
+        result[order] = self._sample_sorted(lengths[order], generator, progress)
         return result.tolist()
+
+    def _sample_sorted(self, lengths: np.ndarray, generator, progress) -> list[str]:
+        """Strings for lengths sorted longest first, a chunk at a time."""
+        out: list[str] = []
+        for a in range(0, len(lengths), CHUNK):
+            chunk = lengths[a:a + CHUNK]
+            out.extend(self._decode(self._walk(chunk, generator), chunk))
+            if progress is not None:
+                progress(len(chunk))
+        return out
 
     def _walk(self, lengths: np.ndarray, generator: np.random.Generator) -> np.ndarray:
         """Code points, one row per sample (lengths sorted longest first), each row
@@ -228,14 +235,15 @@ class FloatTables:
         top = int(lengths[0]) if n else 0
         codes = np.zeros((top + 1, n), dtype=self._codes_dtype)
         where = np.zeros(n, dtype=np.int64)  # base slot of each sample's state
-        rows = lengths * self.n_slots
+        rows = lengths * self.n_slots if n and lengths[0] != lengths[-1] else None
         branching = self.fanout.max(initial=0) > 1
         negative = -lengths
         for i in range(top):
             m = int(np.searchsorted(negative, -i, side="left"))
             here = where[:m]
             if branching:
-                chosen = self._choose(here, rows[:m] - i * self.n_slots, generator)
+                row = (top - i) * self.n_slots if rows is None else rows[:m] - i * self.n_slots
+                chosen = self._choose(here, row, generator)
             else:
                 chosen = here
             codes[i, :m] = self._characters(chosen, generator)
@@ -246,10 +254,9 @@ class FloatTables:
     def _choose(self, here, row, generator) -> np.ndarray:
         """Alias draw: a uniform slot of the state, kept below its threshold, else its alias."""
         x = generator.random(len(here)) * self.slot_fanout[here]
-        whole = x.astype(np.int64)
-        slot = here + whole
+        slot = here + x.astype(np.int64)
         flat = row + slot
-        return np.where(x - whole < self._prob_flat[flat], slot, self._alias_flat[flat])
+        return np.where(x < self._limit_flat[flat], slot, self._alias_flat[flat])
 
     def _characters(self, chosen, generator) -> np.ndarray:
         """A uniform character among the chosen edge's characters."""

@@ -13,7 +13,7 @@ string of that length:
   uniformly inside it, all exactly;
 - the **bulk path** (``pfuzz.bulk``) walks all samples at once with
   floating-point alias tables (Denise & Zimmermann, TCS 218(2), 1999); its
-  deviation from uniformity is bounded in that module (below 10^-13 in total
+  deviation from uniformity is bounded in that module (about 10^-13 in total
   variation for everyday patterns).
 
 ``method="auto"`` (the default) takes the bulk path when ``n`` is at least
@@ -178,6 +178,8 @@ def _draw_lengths(candidates, weights, n, rng, bulk: bool) -> list[int]:
             picks = [rng.weighted_index(weights) for _ in range(n)]
         return [candidates[i] for i in picks]
     gen = rng.numpy
+    if m == 1:
+        return np.full(n, candidates[0], dtype=np.int64)
     if weights is None:
         picks = gen.integers(0, m, size=n)
     elif sum(weights) < _EXACT_DRAW_LIMIT:
@@ -209,7 +211,7 @@ def _draw(counter, n, candidates, weights, rng, method, progress=None) -> list[s
 
 
 def _unique(counter, n, candidates, weights, rng, method) -> list[str]:
-    capacity = [counter.count(k) for k in candidates]
+    capacity = [_capacity(counter, k, n, method) for k in candidates]
     available = sum(capacity)
     if available <= n:
         if available < n:
@@ -223,6 +225,17 @@ def _unique(counter, n, candidates, weights, rng, method) -> list[str]:
         if quota:
             out.extend(_distinct(counter, length, quota, size, rng, method))
     return _shuffled(out, rng)
+
+
+def _capacity(counter, length: int, n: int, method: str) -> int:
+    """count(length), or a stand-in above 4n when the float tables show it is far larger
+    (so that long lengths do not need exact tables)."""
+    if method == "exact" or length <= EXACT_MAX_LENGTH:
+        return counter.count(length)
+    tables = counter.float_tables(length)
+    if tables.has_strings(length) and int(tables.start_exponent[length]) - 1 > (8 * n).bit_length():
+        return 4 * n + 1  # the count is at least 2^(exponent - 1), mantissa >= 1/2
+    return counter.count(length)
 
 
 def _quotas(n, candidates, weights, capacity, rng, method) -> list[int]:
