@@ -43,6 +43,7 @@ COMMAND_MODULES = [
     "rejects",
     "diff",
     "draw",
+    "audit",
 ]
 
 _register()

@@ -55,21 +55,23 @@ def comparison_dict(result: Comparison) -> dict:
             "a_minus_b": result.only_a.as_dict(), "b_minus_a": result.only_b.as_dict()}
 
 
-def comparison_lines(result: Comparison, a: str = "A", b: str = "B") -> list[str]:
-    """The text form shared by ``diff`` and ``audit --regex``."""
+def comparison_lines(result: Comparison, a: str = "A", b: str = "B", rows: int | None = None,
+                     titles: tuple[str, str] | None = None) -> list[str]:
+    """The text form shared by ``diff`` and ``audit --regex`` (``titles`` name the two sides)."""
     if result.equal:
         return ["verdict: equal (the same language)"]
     where = a if result.only_a.language.accepts(result.distinguishing) else b
     lines = [f"verdict: different; shortest string in only one: "
              f"{quote(result.distinguishing)} (only in {where})"]
-    for title, side in ((f"only in {a} ({a}-{b})", result.only_a),
-                        (f"only in {b} ({b}-{a})", result.only_b)):
+    titles = titles or (f"only in {a} ({a}-{b})", f"only in {b} ({b}-{a})")
+    for title, side in zip(titles, (result.only_a, result.only_b)):
         lines.append("")
-        lines.extend(side_lines(title, side))
+        lines.extend(side_lines(title, side, rows))
     return lines
 
 
-def side_lines(title: str, side: Side) -> list[str]:
+def side_lines(title: str, side: Side, rows: int | None = None) -> list[str]:
+    """One side of a comparison; ``rows`` caps the lines of the count table."""
     if side.empty:
         return [f"{title}: none"]
     if side.total is None:
@@ -80,8 +82,11 @@ def side_lines(title: str, side: Side) -> list[str]:
              f"  pattern:  {pattern_label(side)}",
              f"  shortest: {', '.join(quote(t) for t in side.examples)}",
              f"  {'length':>6}  count"]
-    lines.extend(f"  {n:>6}  {c:,}" for n, c in side.counts.items())
-    if not side.finite or (side.language.max_length or 0) > side.bound:
+    counts = list(side.counts.items())
+    lines.extend(f"  {n:>6}  {c:,}" for n, c in counts[:rows])
+    if rows is not None and len(counts) > rows:
+        lines.append(f"  {'...':>6}  ({len(counts) - rows} more lengths)")
+    elif not side.finite or (side.language.max_length or 0) > side.bound:
         lines.append(f"  (counted up to length {side.bound}; use --max-length to see more)")
     return lines
 

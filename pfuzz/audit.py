@@ -1,0 +1,254 @@
+"""Auditing a validator against a specification language.
+
+The specification is a ``Language`` (a ``--pattern`` or a profile field); its
+universe says which characters a valid string may hold, and every string with
+any other character is invalid. The audit writes cases from the
+specification's automata, asks the validator about each, and reports every
+disagreement: a *wrong reject* (a valid string refused) or a *wrong accept*
+(an invalid string let through).
+
+Cases, in the order they are made (a text made twice keeps its first category):
+
+1. the boundary suite of ``pfuzz.boundary`` (shortest, longest, length
+   edges, range edges, transition coverage, exits), all of it;
+2. ``hostile``: the variants of ``pfuzz.hostile`` (a trailing newline, tabs
+   and CRs, spaces around the value, other scripts' digits, full-width
+   letters, no-break and zero-width spaces) of a few valid witnesses;
+3. ``case-flip``: those witnesses with a letter in the other case;
+4. near-miss rejects (``pfuzz.nearmiss``) drawn over the *audit universe*,
+   the specification's universe widened by ``reject_universe`` (default
+   Latin-1: control characters, tab, CR, LF, no-break space, accented letters)
+   and by the hostile characters: one in ``EDGE_SHARE`` from the range-edge
+   near-misses (category ``range-edge``), the rest in equal shares per edit
+   kind (category ``near-miss``), each with its nearest witness and edits;
+5. ``valid``: strings sampled uniformly by length from the specification.
+
+Every case's expected verdict is the specification's own (extended to the
+audit universe by ``pfuzz.comparison.lift``); hostile variants and case flips
+that the specification accepts are dropped. All random choices flow from one
+seeded source: the same seed and specification give the same cases.
+
+A regular-expression target is also compared exactly: its language in the
+user's call mode against the specification over the audit universe, reported
+as the two difference languages (``pfuzz.comparison``).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from . import randomness
+from .charset import CharSet
+from .comparison import Comparison, compare, lift
+from .errors import EmptyLanguageError, PatternError, StateLimitError
+from .hostile import HOSTILE_CHARACTERS, Variant, case_flips, hostile_variants
+from .language import Language
+from .targets import RegexTarget, Verdict
+from .universe import resolve_universe
+
+DEFAULT_VALID = 1_000
+DEFAULT_REJECTS = 1_000
+#: One near-miss reject in this many is drawn from the range-edge near-misses.
+EDGE_SHARE = 4
+DEFAULT_REJECT_UNIVERSE = "latin1"
+#: Valid strings that hostile variants and case flips are made from.
+WITNESSES = 8
+EDIT_KINDS = ("delete", "insert", "replace", "swap")
+#: Report order of categories when their shortest failures are equally long.
+CATEGORY_ORDER = ("length-edge", "range-edge", "near-miss", "hostile", "case-flip",
+                  "shortest", "longest", "coverage", "exit", "valid")
+
+
+@dataclass(frozen=True)
+class AuditCase:
+    """One string to ask the validator about, with the verdict the specification gives."""
+
+    text: str
+    expected: bool
+    category: str
+    kind: str = ""
+    reason: str = ""
+    witness: str | None = None
+    edits: tuple = ()
+
+
+@dataclass(frozen=True)
+class Settings:
+    """How many cases of each kind to make (the documented defaults)."""
+
+    valid: int = DEFAULT_VALID
+    rejects: int = DEFAULT_REJECTS
+    seed: int = 0
+    distance: int = 1
+    kinds: tuple[str, ...] = EDIT_KINDS
+    reject_universe: str = DEFAULT_REJECT_UNIVERSE
+    boundary: bool = True
+    hostile: bool = True
+    case_flip: bool = True
+
+
+@dataclass(frozen=True)
+class Finding:
+    """A case the validator got wrong."""
+
+    case: AuditCase
+    verdict: Verdict
+
+    @property
+    def wrong_accept(self) -> bool:
+        return self.verdict.accepted and not self.case.expected
+
+
+@dataclass
+class AuditReport:
+    """Cases, verdicts and, for a regex target, the exact comparison."""
+
+    spec: str
+    target: str
+    universe: str
+    audit_universe: CharSet
+    settings: Settings
+    cases: list[AuditCase]
+    verdicts: list[Verdict]
+    exact: Comparison | None = None
+    exact_note: str = ""
+    notes: list[str] = field(default_factory=list)
+
+    @property
+    def findings(self) -> list[Finding]:
+        """Disagreements, most useful first: groups by their shortest failure, then shortlex."""
+        wrong = [Finding(c, v) for c, v in zip(self.cases, self.verdicts) if v.accepted != c.expected]
+        first: dict[str, int] = {}
+        for f in wrong:
+            first[f.case.category] = min(first.get(f.case.category, len(f.case.text)), len(f.case.text))
+        return sorted(wrong, key=lambda f: (first[f.case.category], _rank(f.case.category),
+                                            len(f.case.text), f.case.text))
+
+    @property
+    def agrees(self) -> bool:
+        return not self.findings and (self.exact is None or self.exact.equal)
+
+    def summary(self) -> list[dict]:
+        """Per category: cases, wrong accepts, wrong rejects, exceptions raised."""
+        rows: dict[str, dict] = {}
+        for case, verdict in zip(self.cases, self.verdicts):
+            row = rows.setdefault(case.category, {"category": case.category, "cases": 0,
+                                                  "wrong_accepts": 0, "wrong_rejects": 0, "raised": 0})
+            row["cases"] += 1
+            row["wrong_accepts"] += verdict.accepted and not case.expected
+            row["wrong_rejects"] += case.expected and not verdict.accepted
+            row["raised"] += bool(verdict.error)
+        ordered = sorted(rows.values(), key=lambda r: _rank(r["category"]))
+        total = {"category": "total", **{k: sum(r[k] for r in ordered)
+                                         for k in ("cases", "wrong_accepts", "wrong_rejects", "raised")}}
+        return [*ordered, total]
+
+
+def _rank(category: str) -> int:
+    return CATEGORY_ORDER.index(category) if category in CATEGORY_ORDER else len(CATEGORY_ORDER)
+
+
+# -- making the cases -----------------------------------------------------------------
+
+def audit_universe(spec_universe: CharSet, reject_universe: str) -> CharSet:
+    """The specification's universe widened by the reject universe and the hostile characters."""
+    return spec_universe | resolve_universe(reject_universe) | HOSTILE_CHARACTERS
+
+
+def build_cases(spec: Language, settings: Settings = Settings()) -> tuple[list[AuditCase], list[str]]:
+    """The audit's cases in the documented order, and notes on anything left out."""
+    if spec.is_empty():
+        raise EmptyLanguageError("the specification accepts no string: there is nothing to audit")
+    wide = lift(spec, audit_universe(spec.universe, settings.reject_universe))
+    rng = randomness.source(settings.seed)
+    notes: list[str] = []
+    boundary = [_boundary_case(wide, c) for c in spec.boundary_cases()] if settings.boundary else []
+    valid = spec.sample(settings.valid, seed=rng) if settings.valid else []
+    witnesses = _witnesses([c.text for c in boundary if c.expected] + valid, spec)
+    cases = [*boundary,
+             *(_variant_case(v, "hostile") for v in hostile_variants(witnesses) if settings.hostile),
+             *(_variant_case(v, "case-flip") for v in case_flips(witnesses) if settings.case_flip),
+             *_near_misses(wide, settings, rng, notes),
+             *(AuditCase(t, True, "valid", "sample", "sampled uniformly by length") for t in valid)]
+    return _keep_first(cases, wide), notes
+
+
+def _witnesses(candidates: list[str], spec: Language) -> list[str]:
+    chosen: list[str] = []
+    for text in [spec.shortest(), *candidates]:
+        if text not in chosen:
+            chosen.append(text)
+        if len(chosen) == WITNESSES:
+            break
+    return chosen
+
+
+def _boundary_case(wide: Language, case) -> AuditCase:
+    if case.expected:
+        return AuditCase(case.text, True, case.category, "", case.reason)
+    why = wide.explain(case.text)
+    return AuditCase(case.text, False, case.category, "", case.reason, why.witness, why.edits)
+
+
+def _variant_case(variant: Variant, category: str) -> AuditCase:
+    return AuditCase(variant.text, False, category, variant.kind, variant.reason,
+                     variant.witness, variant.edits)
+
+
+def _near_misses(wide: Language, settings: Settings, rng, notes: list[str]) -> list[AuditCase]:
+    edges = settings.rejects // EDGE_SHARE
+    out = []
+    for count, options, category in ((edges, {"edges": True}, "range-edge"),
+                                     (settings.rejects - edges, {"kinds": settings.kinds}, "near-miss")):
+        if not count:
+            continue
+        try:
+            drawn = wide.rejects(count, distance=settings.distance, seed=rng, **options)
+        except EmptyLanguageError as error:
+            notes.append(f"no {category} rejects: {error}")
+            continue
+        out.extend(AuditCase(r.text, False, category, "+".join(r.kinds) or "mixed",
+                             _edits_away(r.distance), r.witness, r.edits)
+                   for r in drawn)
+    return out
+
+
+def _edits_away(distance: int) -> str:
+    return "one edit from a valid string" if distance == 1 else f"{distance} edits from a valid string"
+
+
+def _keep_first(cases: list[AuditCase], wide: Language) -> list[AuditCase]:
+    """Drop repeated texts and variants the specification accepts after all."""
+    seen: set[str] = set()
+    kept = []
+    for case in cases:
+        if case.text in seen or (not case.expected and wide.accepts(case.text)):
+            continue
+        seen.add(case.text)
+        kept.append(case)
+    return kept
+
+
+# -- running ----------------------------------------------------------------------------
+
+def run_audit(spec: Language, target, settings: Settings = Settings(), *,
+              spec_label: str | None = None) -> AuditReport:
+    """Build the cases, ask the target, and (for a regex target) compare the languages exactly."""
+    cases, notes = build_cases(spec, settings)
+    verdicts = target.run([c.text for c in cases])
+    wide_universe = audit_universe(spec.universe, settings.reject_universe)
+    report = AuditReport(spec_label or spec.pattern or "specification", target.label,
+                         spec.universe_name, wide_universe, settings, cases, verdicts, notes=notes)
+    if isinstance(target, RegexTarget):
+        report.exact, report.exact_note = exact_comparison(spec, target, wide_universe)
+    return report
+
+
+def exact_comparison(spec: Language, target: RegexTarget,
+                     universe: CharSet) -> tuple[Comparison | None, str]:
+    """Specification − validator (wrong rejects) and validator − specification (wrong accepts)."""
+    try:
+        accepted = target.language(universe)
+    except (PatternError, StateLimitError) as error:
+        return None, f"no exact comparison: pfuzz cannot compile the validator's regex ({error})"
+    return compare(lift(spec, universe), accepted), ""
