@@ -284,6 +284,10 @@ class _Determiniser:
         plain, obligated = config
         plain_moves, obligated_moves = self.plain_moves[c], self.obligated_moves[c]
         new_plain = frozenset().union(*filter(None, map(plain_moves.get, plain)))
+        if not obligated and not obligated_moves:
+            if self.sink is not None and self.nfa.final in new_plain:
+                return self.sink
+            return (new_plain, _NO_OBLIGATIONS) if new_plain else None
         threads = set().union(*filter(None, map(obligated_moves.get, plain)))
         for s, obligations in obligated:
             if s not in plain_moves:
