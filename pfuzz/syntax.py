@@ -10,39 +10,37 @@ Then one method per grammar rule builds the tree of ``pfuzz.tree``::
     item        := escape | class | group | '.' | '^' | '$' | literal
     quantifier  := ('*' | '+' | '?' | '{' m? (',' n?)? '}') '?'?
     group       := '(' ('?:' | '?P<name>' | '?=' | '?!' | '?flags-flags:')? alternation ')'
-    class       := '[' '^'? member+ ']'       member := atom ('-' atom)?
 
-The rules follow ``re/_parser.py`` (Python 3.11) where it matters for the
-language: a ``{`` that does not open a valid quantifier is a literal; global
-inline flags stand at the start; a scoped ``(?a:...)`` replaces the
-ASCII/Unicode mode; and, as ``re`` does, an alternation whose options are
-all single literals or non-negated classes becomes one class (this matters
-under IGNORECASE, where ``re`` tests such a merged class as a whole).
-``re`` additionally factors common prefixes out of alternations before that
-merge; we do not, which only changes anything under IGNORECASE and was found
-to change no language over all cased code points (see tests/test_casefold.py).
+Escapes are read by ``pfuzz.escapes``, classes by ``pfuzz.classes``. The rules
+follow ``re/_parser.py`` (Python 3.11) wherever the language depends on them:
+a ``{`` that opens no valid quantifier is a literal; global inline flags stand
+at the start; a scoped ``(?a:...)`` replaces the ASCII/Unicode mode; and an
+alternation whose options are all single literals or non-negated classes
+becomes one class, as in ``re`` (under IGNORECASE ``re`` tests such a merged
+class as a whole). ``re`` also factors common prefixes out of alternations
+before merging; we do not, which matters only under IGNORECASE and changes no
+language over the cased code points (checked in tests/test_casefold.py).
 
-Groups dissolve, lazy quantifiers become plain repeats, and every flag but
-IGNORECASE is applied here; case-insensitive atoms keep their source text and
-flags for ``pfuzz.casefold``. Constructs that are not regular or not supported
-(back references, conditionals, possessive quantifiers, atomic groups,
-lookbehind, ``\\b``/``\\B``, LOCALE, bytes) raise ``PatternError`` at the index
-of their first character. Cost: linear in the pattern length, plus ``re``'s own
-compile; the first pattern using ``\\d``, ``\\w`` or ``\\s`` pays about 0.1 s
-once for ``pfuzz.categories``.
+Groups dissolve, lazy quantifiers become plain repeats, every flag but
+IGNORECASE is applied here; atoms keep their source text and flags for
+``pfuzz.casefold``. Constructs that are not regular or not supported (back
+references, conditionals, possessive quantifiers, atomic groups, lookbehind,
+``\\b``/``\\B``, LOCALE, TEMPLATE, bytes) raise ``PatternError`` at the index of
+their first character. Cost: linear in the pattern length (tens of
+microseconds for a validator pattern) plus ``re``'s cached compile; the first
+``\\d``, ``\\w`` or ``\\s`` pays about 0.1 s once for ``pfuzz.categories``.
 """
 
 from __future__ import annotations
 
-import bisect
 import re
 import warnings
 from dataclasses import dataclass
 
-from .categories import category
 from .charset import ALL, CharSet
+from .classes import escape_chars, read_class, union
 from .errors import PatternError
-from .escapes import Escape, read_escape
+from .escapes import read_escape
 from .tree import Alternation, Anchor, Chars, Lookahead, Node, Repeat, Sequence
 
 # re's flag values as plain ints (RegexFlag arithmetic is slow in a hot loop).
@@ -306,50 +304,15 @@ class _Parser:
         if escape.kind == "backreference":
             raise self.refuse(f"backreference {source}", escape.start, "is not regular")
         self.pos = escape.end
-        chars = _escape_chars(escape, flags)
+        chars = escape_chars(escape, ascii_only=bool(flags & ASCII))
         return _Item(Chars(chars, escape.start, source, flags & ATOM_FLAGS), 1, True)
 
-    # -- classes -----------------------------------------------------------------
     def char_class(self, flags: int) -> _Item:
         start = self.pos
-        self.pos += 1
-        negated = self.peek() == "^"
-        self.pos += negated
-        members: list[CharSet] = []
-        while not (self.peek() == "]" and members):
-            if not self.peek():
-                raise self.error("unterminated character set", start)
-            members.append(self.class_member(flags))
-        self.pos += 1
-        chars = _union(members)
-        if negated:
-            chars = chars.complement()
+        found = read_class(self.text, start, ascii_only=bool(flags & ASCII))
+        self.pos = found.end
         source = self.text[start : self.pos]
-        return _Item(Chars(chars, start, source, flags & ATOM_FLAGS), 1, not negated)
-
-    def class_member(self, flags: int) -> CharSet:
-        low_start = self.pos
-        low, low_code = self.class_atom(flags)
-        if self.peek() != "-" or self.peek(1) == "]":
-            return low
-        if not self.peek(1):
-            raise self.error("unterminated character set", low_start)
-        self.pos += 1
-        high, high_code = self.class_atom(flags)
-        if low_code is None or high_code is None or high_code < low_code:
-            raise self.error(f"bad character range {self.text[low_start:self.pos]}", low_start)
-        return CharSet.range(low_code, high_code)
-
-    def class_atom(self, flags: int) -> tuple[CharSet, int | None]:
-        """One character (its set and code point) or one category (its set, no code point)."""
-        if self.peek() != "\\":
-            char = self.peek()
-            self.pos += 1
-            return CharSet.single(char), ord(char)
-        escape = read_escape(self.text, self.pos, in_class=True)
-        self.pos = escape.end
-        chars = _escape_chars(escape, flags)
-        return chars, escape.value if escape.kind == "char" else None
+        return _Item(Chars(found.chars, start, source, flags & ATOM_FLAGS), 1, not found.negated)
 
     # -- groups ------------------------------------------------------------------
     def group(self, flags: int) -> _Item:
@@ -417,7 +380,7 @@ class _Parser:
 
 def _flag_letters(text: str, index: int) -> tuple[int, int]:
     value = 0
-    while text[index : index + 1] in INLINE_FLAGS and index < len(text):
+    while index < len(text) and text[index] in INLINE_FLAGS:
         value |= INLINE_FLAGS[text[index]]
         index += 1
     return value, index
@@ -427,12 +390,6 @@ def _digits_end(text: str, index: int) -> int:
     while index < len(text) and text[index] in DIGITS:
         index += 1
     return index
-
-
-def _escape_chars(escape: Escape, flags: int) -> CharSet:
-    if escape.kind == "category":
-        return category(escape.value, ascii_only=bool(flags & ASCII))
-    return CharSet.single(escape.value)
 
 
 def _dissolved(items: list[_Item], start: int) -> _Item:
@@ -455,37 +412,9 @@ def _merge_options(options: list[list[_Item]], start: int) -> Chars | None:
     atoms = [_single_plain(option) for option in options]
     if any(atom is None for atom in atoms) or len({atom.flags for atom in atoms}) != 1:
         return None
-    chars = CharSet.of(r for atom in atoms for r in atom.chars.ranges)
+    chars = union([atom.chars for atom in atoms])
     source = "|".join(atom.source for atom in atoms)
     return Chars(chars, start, source, atoms[0].flags)
-
-
-def _union(sets: list[CharSet]) -> CharSet:
-    """The union of a class's members: the few small ones are inserted into the largest.
-
-    Each insertion is two binary searches and one slice assignment, so a class
-    such as ``[\\w!@#]`` costs microseconds although ``\\w`` has ~700 ranges.
-    """
-    largest = max(sets, key=lambda s: len(s.ranges))
-    ranges = list(largest.ranges)
-    for other in sets:
-        if other is largest:
-            continue
-        for low, high in other.ranges:
-            first = bisect.bisect_left(ranges, low - 1, key=_high)
-            stop = bisect.bisect_right(ranges, high + 1, key=_low)
-            if first < stop:
-                low, high = min(low, ranges[first][0]), max(high, ranges[stop - 1][1])
-            ranges[first:stop] = [(low, high)]
-    return CharSet(tuple(ranges))
-
-
-def _low(span: tuple[int, int]) -> int:
-    return span[0]
-
-
-def _high(span: tuple[int, int]) -> int:
-    return span[1]
 
 
 def _build(items: list[_Item], position: int) -> Node:
