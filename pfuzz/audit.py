@@ -19,8 +19,10 @@ Cases, in the order they are made (a text made twice keeps its first category):
    the specification's universe widened by ``reject_universe`` (default
    Latin-1: control characters, tab, CR, LF, no-break space, accented letters)
    and by the hostile characters: one in ``EDGE_SHARE`` from the range-edge
-   near-misses (category ``range-edge``), the rest in equal shares per edit
-   kind (category ``near-miss``), each with its nearest witness and edits;
+   near-misses (category ``range-edge``), the rest in equal shares drawn
+   from each edit kind's own near-miss language (category ``near-miss``),
+   each with its nearest witness and the edits from it (whose kind the
+   report lists it under);
 5. ``valid``: strings sampled uniformly by length from the specification.
 
 Every case's expected verdict is the specification's own (extended to the
@@ -71,6 +73,11 @@ class AuditCase:
     witness: str | None = None
     edits: tuple = ()
 
+    @property
+    def group(self) -> str:
+        """The heading a failure is listed under: the category, near-misses split by edit kind."""
+        return f"near-miss ({self.kind})" if self.category == "near-miss" else self.category
+
 
 @dataclass(frozen=True)
 class Settings:
@@ -120,8 +127,8 @@ class AuditReport:
         wrong = [Finding(c, v) for c, v in zip(self.cases, self.verdicts) if v.accepted != c.expected]
         first: dict[str, int] = {}
         for f in wrong:
-            first[f.case.category] = min(first.get(f.case.category, len(f.case.text)), len(f.case.text))
-        return sorted(wrong, key=lambda f: (first[f.case.category], _rank(f.case.category),
+            first[f.case.group] = min(first.get(f.case.group, len(f.case.text)), len(f.case.text))
+        return sorted(wrong, key=lambda f: (first[f.case.group], _rank(f.case.category), f.case.group,
                                             len(f.case.text), f.case.text))
 
     @property
@@ -196,25 +203,38 @@ def _variant_case(variant: Variant, category: str) -> AuditCase:
 
 
 def _near_misses(wide: Language, settings: Settings, rng, notes: list[str]) -> list[AuditCase]:
+    """Range-edge near-misses first, then an equal share for each edit kind."""
     edges = settings.rejects // EDGE_SHARE
+    rest = settings.rejects - edges
+    kinds = settings.kinds
+    draws = [(edges, {"edges": True}, "range-edge", "")]
+    draws += [(rest // len(kinds) + (i < rest % len(kinds)), {"kinds": [kind]}, "near-miss", kind)
+              for i, kind in enumerate(kinds)]
     out = []
-    for count, options, category in ((edges, {"edges": True}, "range-edge"),
-                                     (settings.rejects - edges, {"kinds": settings.kinds}, "near-miss")):
+    for count, options, category, kind in draws:
         if not count:
             continue
         try:
             drawn = wide.rejects(count, distance=settings.distance, seed=rng, **options)
         except EmptyLanguageError as error:
-            notes.append(f"no {category} rejects: {error}")
+            notes.append(f"no {category} {kind} rejects: {error}".replace("  ", " "))
             continue
-        out.extend(AuditCase(r.text, False, category, "+".join(r.kinds) or "mixed",
-                             _edits_away(r.distance), r.witness, r.edits)
-                   for r in drawn)
+        reason = _edits_away(settings.distance, category == "range-edge")
+        out.extend(AuditCase(r.text, False, category, _script_kind(r.edits) if kind else "", reason,
+                             r.witness, r.edits) for r in drawn)
     return out
 
 
-def _edits_away(distance: int) -> str:
-    return "one edit from a valid string" if distance == 1 else f"{distance} edits from a valid string"
+def _script_kind(edits) -> str:
+    """The kinds of edit in the witness's script (the kind a failure is listed under)."""
+    return "+".join(dict.fromkeys(e.kind for e in edits)) or "none"
+
+
+def _edits_away(distance: int, edge: bool) -> str:
+    edits = "one edit" if distance == 1 else f"up to {distance} edits"
+    if edge:
+        return f"{edits} from a valid string, writing characters just outside a range"
+    return f"{edits} from a valid string"
 
 
 def _keep_first(cases: list[AuditCase], wide: Language) -> list[AuditCase]:

@@ -158,6 +158,7 @@ def report_dict(report: AuditReport) -> dict:
     return {
         "agrees": report.agrees, "specification": report.spec, "validator": report.target,
         "universe": report.universe, "audit_universe": report.audit_universe.describe(limit=12),
+        "audit_universe_ranges": [list(r) for r in report.audit_universe.ranges],
         "settings": {"seed": s.seed, "valid": s.valid, "rejects": s.rejects, "distance": s.distance,
                      "kinds": list(s.kinds), "reject_universe": s.reject_universe,
                      "boundary": s.boundary, "hostile": s.hostile, "case_flip": s.case_flip},
@@ -192,7 +193,7 @@ def _finding_lines(findings, show: int) -> list[str]:
     lines: list[str] = []
     groups: dict[str, list] = {}
     for f in findings:
-        groups.setdefault(f.case.category, []).append(f)
+        groups.setdefault(f.case.group, []).append(f)
     for category, members in groups.items():
         lines += ["", f"{category}: {plural(len(members), 'failure')}"]
         for f in members[:show]:
@@ -210,7 +211,7 @@ def _one_finding(finding) -> list[str]:
     case, verdict = finding.case, finding.verdict
     what = "wrong accept" if finding.wrong_accept else "wrong reject"
     raised = f"   (raised {verdict.error})" if verdict.error else ""
-    detail = [case.kind, case.reason] if case.kind else [case.reason]
+    detail = [case.reason] if case.category == "near-miss" or not case.kind else [case.kind, case.reason]
     if case.witness is not None:
         edits = "; ".join(str(e) for e in case.edits)
         detail.append(f"witness {quote(case.witness)}" + (f": {edits}" if edits else ""))
