@@ -229,26 +229,27 @@ class FloatTables:
         return out
 
     def _walk(self, lengths: np.ndarray, generator: np.random.Generator) -> np.ndarray:
-        """Code points, one row per sample (lengths sorted longest first), each row
-        ended by the separator at its own length."""
+        """Code points, one row per sample (lengths sorted longest first).
+
+        Strings are aligned at their end: a string of length L starts at step
+        top - L, so at every step all active samples have the same remaining
+        length and read the same level of the tables. Each row ends with the
+        separator; row k holds its string in columns top - L .. top - 1.
+        """
         n = len(lengths)
         top = int(lengths[0]) if n else 0
         codes = np.zeros((top + 1, n), dtype=self._codes_dtype)
+        codes[top, :] = self._separator
         where = np.zeros(n, dtype=np.int64)  # base slot of each sample's state
-        rows = lengths * self.n_slots if n and lengths[0] != lengths[-1] else None
         branching = self.fanout.max(initial=0) > 1
         negative = -lengths
-        for i in range(top):
-            m = int(np.searchsorted(negative, -i, side="left"))
+        for step in range(top):
+            remaining = top - step
+            m = int(np.searchsorted(negative, -remaining, side="right"))
             here = where[:m]
-            if branching:
-                row = (top - i) * self.n_slots if rows is None else rows[:m] - i * self.n_slots
-                chosen = self._choose(here, row, generator)
-            else:
-                chosen = here
-            codes[i, :m] = self._characters(chosen, generator)
+            chosen = self._choose(here, remaining * self.n_slots, generator) if branching else here
+            codes[step, :m] = self._characters(chosen, generator)
             where[:m] = self.next_base[chosen]
-        codes[lengths, np.arange(n)] = self._separator
         return codes.T
 
     def _choose(self, here, row, generator) -> np.ndarray:
@@ -273,9 +274,10 @@ class FloatTables:
         """Rows of code points back to strings, one run of equal lengths at a time."""
         out: list[str] = []
         separator = chr(self._separator)
+        top = codes.shape[1] - 1
         cuts = np.flatnonzero(np.diff(lengths)) + 1
         for a, b in zip([0, *cuts.tolist()], [*cuts.tolist(), len(lengths)]):
-            block = np.ascontiguousarray(codes[a:b, :int(lengths[a]) + 1])
+            block = np.ascontiguousarray(codes[a:b, top - int(lengths[a]):])
             text = block.tobytes().decode(self._encoding, "surrogatepass")
             out.extend(text.split(separator)[:-1])
         return out

@@ -31,6 +31,10 @@ draws lengths exactly, the bulk path exactly while the total weight is below
 2^62 and otherwise from correctly rounded probabilities (a further total
 variation below m·2^-52 for m lengths).
 
+Cost: the exact walk takes O(length × d × log pieces) big-integer steps per
+string (d the out-degree); the bulk path O(length) vectorised numpy steps per
+chunk of strings plus one table build (``pfuzz.bulk``).
+
 ``unique=True`` returns distinct strings: lengths are drawn as above, a
 length that runs out of strings is dropped and its excess draws are redrawn
 among the others; within a length, a sparse quota is filled by rejecting
