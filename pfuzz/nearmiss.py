@@ -65,7 +65,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Iterable, Sequence
 
-from . import randomness
+from . import randomness, witness
 from .charset import CharSet, partition
 from .dfa import DEAD, DEFAULT_STATE_CAP, DFA, explore, minimise
 from .errors import EmptyLanguageError, PfuzzError
@@ -234,6 +234,13 @@ class _Neighbourhood:
 
 _CACHE: dict[tuple, DFA] = {}
 _CACHE_SIZE = 64
+
+
+def clear_caches() -> None:
+    """Forget every cached near-miss automaton, counter and correction table (benchmarks)."""
+    _CACHE.clear()
+    _COUNTERS.clear()
+    witness.clear_caches()
 
 
 def near_miss_dfa(dfa: DFA, distance: int = 1, kinds: "Sequence[str] | None" = None, *,

@@ -366,6 +366,11 @@ def corrector(dfa: DFA) -> _Corrector:
     return by_identity(_CORRECTORS, dfa, _Corrector)
 
 
+def clear_caches() -> None:
+    """Forget the cached correction tables."""
+    _CORRECTORS.clear()
+
+
 def nearest(dfa: DFA, text: str, bound: int | None = None) -> Explanation:
     """``explain`` with a first guess ``bound`` at the distance (used by the reject sampler)."""
     return corrector(dfa).nearest(text, bound)
