@@ -140,13 +140,13 @@ def check_modes(universe: str, prefix: str, body: str) -> None:
         assert as_search.accepts(s) == (rx.search(s) is not None), (body, s)  # reference: re.search
 
 
-@settings(max_examples=600, deadline=None, database=None)
+@settings(max_examples=400, deadline=None, database=None)
 @given(cases(assertions=False, flag_choices=(0, re.DOTALL, re.IGNORECASE)))
 def test_plain_patterns_agree_with_re(case):
     check(*case)
 
 
-@settings(max_examples=1200, deadline=None, database=None)
+@settings(max_examples=900, deadline=None, database=None)
 @given(cases())
 def test_patterns_with_anchors_and_lookaheads_agree_with_re(case):
     check(*case)
