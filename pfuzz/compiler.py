@@ -56,8 +56,10 @@ START, NEWLINE, OTHER = 0, 1, 2
 #: The NFA may have at most this many states per allowed DFA state.
 NFA_STATES_PER_CAP = 4
 
-_NO_OBLIGATIONS: frozenset = frozenset()
+#: Obligation sets are interned; id 0 is the empty set, None means "blocked".
+_NO_OBLIGATIONS = 0
 _BLOCKED = None
+_NO_THREADS: frozenset = frozenset()
 
 Resolver = Callable[[Chars, CharSet], CharSet]
 
@@ -134,7 +136,10 @@ class _Shared:
         self.universal: list[int] = []
         self.interned: dict[DFA, int] = {}
         self.assertions: dict = {}
-        self.advanced: dict = {}
+        self.sets: list[frozenset] = [frozenset()]
+        self.set_ids: dict[frozenset, int] = {frozenset(): _NO_OBLIGATIONS}
+        self.advanced: dict[tuple[int, int], int | None] = {}
+        self.unions: dict[tuple[int, int], int] = {}
 
     def compile(self, tree: Node, context: int, any_suffix: bool) -> DFA:
         nfa = build(tree, self.labels.__getitem__, n_classes=len(self.classes),
@@ -156,13 +161,29 @@ class _Shared:
         return cid
 
     def obligation(self, cid: int):
-        """The obligations a new constraint adds: none (universal), _BLOCKED, or one pair."""
-        dfa = self.constraints[cid]
+        """The obligation set a new constraint adds: none (universal), _BLOCKED, or one pair."""
         if self.universal[cid] == 0:
             return _NO_OBLIGATIONS
-        if dfa.is_empty():
+        if self.constraints[cid].is_empty():
             return _BLOCKED
-        return frozenset({(cid, 0)})
+        return self.set_id(frozenset({(cid, 0)}))
+
+    def set_id(self, pairs: frozenset) -> int:
+        """The interned id of a set of (constraint, state) pairs."""
+        oid = self.set_ids.get(pairs)
+        if oid is None:
+            oid = self.set_ids[pairs] = len(self.sets)
+            self.sets.append(pairs)
+        return oid
+
+    def union(self, a: int, b: int) -> int:
+        if not a or not b or a == b:
+            return a or b
+        key = (a, b) if a < b else (b, a)
+        oid = self.unions.get(key)
+        if oid is None:
+            oid = self.unions[key] = self.set_id(self.sets[a] | self.sets[b])
+        return oid
 
     def assertion(self, node: Anchor | Lookahead, context: int):
         """What taking an assertion edge in ``context`` adds (see ``obligation``)."""
@@ -192,26 +213,39 @@ class _Shared:
         raw = DFA(self.universe, tuple(self.classes), table, frozenset(range(len(rows))))
         return automata.minimise(raw)
 
-    def advance(self, obligations: frozenset, c: int):
-        """Obligations after reading class ``c``, or _BLOCKED when one of them dies."""
-        key = (obligations, c)
+    def advance(self, oid: int, c: int):
+        """The obligation set after reading class ``c``, or _BLOCKED when one of them dies."""
+        key = (oid, c)
         if key in self.advanced:
             return self.advanced[key]
         kept = []
-        for cid, state in obligations:
+        for cid, state in self.sets[oid]:
             nxt = self.constraints[cid].table[state][self.columns[cid][c]]
             if nxt == DEAD:
                 kept = _BLOCKED
                 break
             if nxt != self.universal[cid]:
                 kept.append((cid, nxt))
-        result = _BLOCKED if kept is _BLOCKED else frozenset(kept)
+        result = _BLOCKED if kept is _BLOCKED else self.set_id(frozenset(kept))
         self.advanced[key] = result
         return result
 
-    def satisfied(self, obligations: frozenset) -> bool:
-        """Whether every obligation accepts the end of the input."""
-        return all(state in self.constraints[cid].accepting for cid, state in obligations)
+    def satisfied(self, oid: int) -> bool:
+        """Whether every obligation of the set accepts the end of the input."""
+        return all(state in self.constraints[cid].accepting for cid, state in self.sets[oid])
+
+    def prune(self, plain: frozenset, threads) -> frozenset:
+        """Drop threads subsumed by a thread at the same state with fewer obligations."""
+        states = {s for s, _ in threads}
+        if len(states) == len(threads) and states.isdisjoint(plain):
+            return frozenset(threads)
+        by_state: dict[int, list[int]] = {}
+        for s, oid in threads:
+            if s not in plain:
+                by_state.setdefault(s, []).append(oid)
+        sets = self.sets
+        return frozenset((s, oid) for s, oids in by_state.items() for oid in oids
+                         if len(oids) == 1 or not any(sets[o] < sets[oid] for o in oids))
 
 
 def _universal_state(dfa: DFA) -> int:
@@ -232,7 +266,7 @@ class _Determiniser:
         self.nfa = nfa
         self.contexts = contexts
         self.closures: dict[tuple[int, int], tuple[frozenset, frozenset]] = {}
-        self.sink = (frozenset({nfa.final}), _NO_OBLIGATIONS) if nfa.kinds[nfa.final] == CHAR else None
+        self.sink = (frozenset({nfa.final}), _NO_THREADS) if nfa.kinds[nfa.final] == CHAR else None
         n_classes = len(shared.classes)
         after = [contexts[NEWLINE] if c == shared.newline_class else OTHER for c in range(n_classes)]
         # Per class: the plain states and the obligated threads each mover reaches.
@@ -276,9 +310,9 @@ class _Determiniser:
                 extra = self.shared.assertion(labels[s], context)
                 if extra is _BLOCKED:
                     continue
-                obligations = obligations | extra
+                obligations = self.shared.union(obligations, extra)
             stack.extend((t, obligations) for t in targets[s])
-        return frozenset(plain), _prune(plain, obligated)
+        return frozenset(plain), self.shared.prune(plain, obligated)
 
     def step(self, config, c: int):
         plain, obligated = config
@@ -287,7 +321,7 @@ class _Determiniser:
         if not obligated and not obligated_moves:
             if self.sink is not None and self.nfa.final in new_plain:
                 return self.sink
-            return (new_plain, _NO_OBLIGATIONS) if new_plain else None
+            return (new_plain, _NO_THREADS) if new_plain else None
         threads = set().union(*filter(None, map(obligated_moves.get, plain)))
         for s, obligations in obligated:
             if s not in plain_moves:
@@ -301,31 +335,16 @@ class _Determiniser:
                 threads.update(more)
                 continue
             threads.update((u, carried) for u in plain_moves[s])
-            threads.update((u, carried | extra) for u, extra in more)
+            union = self.shared.union
+            threads.update((u, union(carried, extra)) for u, extra in more)
         if self.sink is not None and self.nfa.final in new_plain:
             return self.sink
         if not new_plain and not threads:
             return None
-        return new_plain, (_prune(new_plain, threads) if threads else _NO_OBLIGATIONS)
+        return new_plain, (self.shared.prune(new_plain, threads) if threads else _NO_THREADS)
 
     def is_accepting(self, config) -> bool:
         plain, obligated = config
         final = self.nfa.final
         return final in plain or any(s == final and self.shared.satisfied(obligations)
                                      for s, obligations in obligated)
-
-
-def _prune(plain, threads) -> frozenset:
-    """Drop threads subsumed by a thread at the same state with fewer obligations."""
-    by_state: dict[int, list[frozenset]] = {}
-    for s, obligations in threads:
-        if s not in plain:
-            by_state.setdefault(s, []).append(obligations)
-    if len(by_state) == len(threads):
-        return frozenset(threads)
-    kept = []
-    for s, sets in by_state.items():
-        for obligations in sets:
-            if len(sets) == 1 or not any(other < obligations for other in sets):
-                kept.append((s, obligations))
-    return frozenset(kept)
