@@ -120,6 +120,8 @@ class Counter:
     # -- ranking ---------------------------------------------------------------------
     def rank(self, text: str) -> int:
         """Position of ``text`` among the accepted strings of its length, in code-point order."""
+        if self.count(len(text)) == 0:
+            raise ValueError(f"{text!r} is not in the language (no strings of its length)")
         state, index = 0, 0
         for depth, char in enumerate(text):
             below = self._table(len(text) - depth - 1)

@@ -125,8 +125,9 @@ _LENGTHS_HELP = ("lengths must be 'even', 'proportional', a length, a list of le
 def _ranged_plan(counter, min_length, max_length, mode, method):
     low, high = counter.bounds(min_length, max_length)
     if low > high:
-        shortest = f" (the shortest string has length {low})" if min_length is None else ""
-        raise EmptyLanguageError(f"the length range {low} to {high} is empty{shortest}")
+        hint = (f" (the shortest string has length {low})" if min_length is None else
+                f" (the longest string has length {high})" if max_length is None else "")
+        raise EmptyLanguageError(f"the length range {low} to {high} is empty{hint}")
     exact = method == "exact" or high <= EXACT_MAX_LENGTH
     if exact:
         candidates = [k for k in range(low, high + 1) if counter.count(k)]
