@@ -139,19 +139,21 @@ def sample(pattern, universe, flags, state_cap, how_many, seed, min_length, max_
       pfuzz sample '[a-z]+@[a-z]+\\.org' -n 1000 --max-length 20 --unique --format jsonl
     """
     lang = compile_language(pattern, universe, flags, state_cap)
-    low, high = _bounds(lang, min_length, max_length)
+    _bounds(lang, min_length, max_length)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", PfuzzWarning)
-        strings = _sample_with_progress(lang, how_many, low, high, seed, lengths, unique, method)
+        strings = _sample_with_progress(lang, how_many, min_length, max_length, seed, lengths,
+                                        unique, method)
     for warning in caught:
         if issubclass(warning.category, PfuzzWarning):
             _note(f"warning: {warning.message}")
     emit(_render_strings(strings, fmt), out)
 
 
-def _sample_with_progress(lang, n, low, high, seed, lengths, unique, method) -> list[str]:
+def _sample_with_progress(lang, n, min_length, max_length, seed, lengths, unique,
+                          method) -> list[str]:
     show = n >= PROGRESS_MIN or (n >= PROGRESS_TTY_MIN and sys.stderr.isatty())
-    arguments = dict(min_length=low, max_length=high, seed=seed, lengths=lengths,
+    arguments = dict(min_length=min_length, max_length=max_length, seed=seed, lengths=lengths,
                      unique=unique, method=method)
     if not show:
         return lang.counter.sample(n, **arguments)
