@@ -144,15 +144,19 @@ def test_the_state_cap_bounds_the_expanded_nfa():
 
 
 def test_bounded_repeat_grows_linearly():
-    # [a-z0-9]{1,n} has n + 1 states; doubling n should roughly double the time.
+    # [a-z0-9]{1,n} has n + 1 states; four times n should cost about four times as much
+    # (CPU time, best of three, so that other processes disturb it less).
     chars = Chars(CharSet.of([(0x61, 0x7A), (0x30, 0x39)]))
     timings = []
     for n in (256, 1024):
-        start = time.perf_counter()
-        dfa = compiled(Repeat(chars, 1, n), PRINTABLE)
-        timings.append(time.perf_counter() - start)
+        best = float("inf")
+        for _ in range(3):
+            start = time.process_time()
+            dfa = compiled(Repeat(chars, 1, n), PRINTABLE)
+            best = min(best, time.process_time() - start)
+        timings.append(best)
         assert dfa.n_states == n + 1
-    assert timings[1] < 10 * timings[0] + 0.05
+    assert timings[1] < 10 * timings[0] + 0.02
 
 
 # -- through the parser and the Language façade (values derived by hand) -----------------
