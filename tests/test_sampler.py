@@ -116,3 +116,10 @@ def test_progress_is_reported_for_every_string():
         seen = []
         x.counter.sample(n, seed=0, method=method, progress=seen.append)
         assert sum(seen) == n
+
+
+def test_length_weights_too_large_for_exact_integer_draws():
+    # 10^20 strings of length 20 exceed 2^62: the bulk path draws from rounded shares.
+    x = lang(r"[0-9]{1,20}")
+    lengths = [len(s) for s in x.sample(2000, lengths="proportional", seed=6, method="bulk")]
+    assert set(lengths) <= {17, 18, 19, 20} and lengths.count(20) > 1700

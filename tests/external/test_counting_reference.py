@@ -2,7 +2,7 @@
 
 Reference matcher: CPython's ``re.fullmatch`` (the standard library). For
 random small patterns over a 2- or 3-letter universe, every string up to
-length 8 (2 letters) or 6 (3 letters) is tried with ``re.fullmatch``; the
+length 8 is tried with ``re.fullmatch``; the
 accepted ones, sorted, must be exactly what pfuzz counts, ranks and
 enumerates, and every sampled string must be accepted by ``re.fullmatch``.
 """
@@ -64,10 +64,10 @@ def test_two_letters_up_to_length_8(pattern):
     check(pattern, "ab", 8)
 
 
-@settings(max_examples=30, deadline=None, database=None)
+@settings(max_examples=20, deadline=None, database=None)
 @given(patterns("abc"))
-def test_three_letters_up_to_length_6(pattern):
-    check(pattern, "abc", 6)
+def test_three_letters_up_to_length_8(pattern):
+    check(pattern, "abc", 8)
 
 
 REALISTIC = [

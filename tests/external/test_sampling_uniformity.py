@@ -101,3 +101,13 @@ def test_a_biased_length_choice_is_seen():
     drawn = lang.sample(6000, lengths="even", seed=13)
     proportional = {1: 10 / 1110, 2: 100 / 1110, 3: 1000 / 1110}
     assert p_value(Counter(map(len, drawn)), proportional, 6000) < 1e-12
+
+
+def test_proportional_lengths_beyond_the_exact_tables():
+    # [ab]* has 2^n strings of length n, so lengths 1500, 1501, 1502 weigh 1 : 2 : 4;
+    # at these lengths the bulk path weighs them from its float tables.
+    lang = pfuzz.compile(r"[ab]*")
+    n = 3500
+    drawn = lang.sample(n, min_length=1500, max_length=1502, lengths="proportional", seed=4)
+    shares = {1500: 1 / 7, 1501: 2 / 7, 1502: 4 / 7}
+    assert p_value(Counter(map(len, drawn)), shares, n) > ALPHA
