@@ -41,6 +41,7 @@ COMMAND_MODULES = [
     "info",
     "sampling",
     "rejects",
+    "corpus",
     "diff",
     "draw",
     "audit",

@@ -1,0 +1,86 @@
+"""``pfuzz corpus``: a profile in, a folder of paired QA data out (``pfuzz.corpus``)."""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+import click
+
+from ..corpus import step_count, write_corpus
+from ..profile import ProfileError, load_profile
+from .common import fail, out_option, report_errors, seed_option
+
+
+@click.command("corpus")
+@click.argument("profile_path", metavar="PROFILE",
+                type=click.Path(dir_okay=False, path_type=Path))
+@out_option
+@seed_option
+@click.option("--force", is_flag=True,
+              help="Replace OUT if it holds an earlier corpus (or is empty).")
+@click.pass_context
+@report_errors
+def corpus(ctx, profile_path, out, seed, force):
+    """Write valid strings, near-miss rejects and boundary cases for every field of PROFILE.
+
+    PROFILE is a TOML file describing fields (pattern, require, forbid,
+    lengths, counts) and optionally a record with faker context columns. OUT
+    receives, all at once or not at all: fields/NAME/{valid,rejects,boundary}.jsonl,
+    records/NAME/{valid,invalid}.csv, cases.csv (every case in one table),
+    manifest.json (versions, counts per length, checksums) and SHA256SUMS.
+    Without --seed the profile's own seed is used (else 0).
+
+    \b
+    Example:
+      pfuzz corpus profiles/demo.toml --out demo-corpus
+      pfuzz corpus profiles/demo.toml --out demo-corpus --seed 7 --force
+    """
+    if out is None:
+        fail("give the output directory with --out DIR")
+    try:
+        profile = load_profile(profile_path)
+    except ProfileError as error:
+        if (ctx.find_root().obj or {}).get("debug"):
+            raise
+        fail(str(error), error.detail)
+    chosen = seed if ctx.get_parameter_source("seed") is not click.core.ParameterSource.DEFAULT \
+        else None
+    summary = _run(profile, out, chosen, force)
+    _print_summary(summary)
+
+
+def _run(profile, out: Path, seed, force: bool):
+    steps = step_count(profile)
+    if not sys.stderr.isatty():
+        return write_corpus(profile, out, seed, force=force)
+    with click.progressbar(length=steps, label="pfuzz corpus", file=sys.stderr,
+                           item_show_func=lambda label: label) as bar:
+        return write_corpus(profile, out, seed, force=force,
+                            progress=lambda label: bar.update(1, label))
+
+
+def _print_summary(summary) -> None:
+    say = lambda text="": click.echo(text, err=True)  # noqa: E731
+    total = sum(info["bytes"] for info in summary.files.values())
+    say(f"pfuzz: wrote {summary.out_dir}/ ({len(summary.files)} files, {_size(total)}, "
+        f"seed {summary.seed})")
+    width = max(len("field"), *(len(name) for name in summary.fields))
+    say(f"  {'field':<{width}}  {'valid':>7}  {'rejects':>7}  {'boundary':>8}")
+    for name, counts in summary.fields.items():
+        say(f"  {name:<{width}}  {counts['valid']:>7,}  {counts['rejects']:>7,}  "
+            f"{counts['boundary']:>8,}")
+    if summary.record:
+        rec = summary.record
+        say(f"  record {rec['name']}: {rec['valid_rows']:,} valid rows, "
+            f"{rec['invalid_rows']:,} rows with one near-miss field")
+    say(f"  cases.csv: {summary.cases:,} cases; manifest.json and SHA256SUMS list every file")
+
+
+def _size(n: int) -> str:
+    if n < 1000:
+        return f"{n} bytes"
+    return f"{n / 1000:,.1f} KB" if n < 10**6 else f"{n / 10**6:,.1f} MB"
+
+
+COMMANDS = [corpus]
