@@ -20,6 +20,11 @@ decoded from code-point arrays (uint8/latin-1 or uint32/UTF-32) with a
 separator character outside the universe, never via numpy string arrays, so
 U+0000 survives.
 
+Reproducibility: the tables come from correctly rounded IEEE-754 operations
+applied in a fixed order (no platform-dependent summation), so they are
+bit-identical everywhere, and the walk consumes the seeded numpy stream in a
+fixed order (chunks of ``CHUNK`` samples, two uniforms per sample and step).
+
 Cost: tables O(L × (E + n)) cells for lengths up to L over E edges and n
 states (a float64 threshold and an int32 alias, 12 bytes per cell), built
 with O(L) vectorised passes; sampling O(N × L) vectorised work for N strings.
