@@ -23,7 +23,8 @@ U+0000 survives.
 Reproducibility: the tables come from correctly rounded IEEE-754 operations
 applied in a fixed order (no platform-dependent summation), so they are
 bit-identical everywhere, and the walk consumes the seeded numpy stream in a
-fixed order (chunks of ``CHUNK`` samples, two uniforms per sample and step).
+fixed order (chunks of ``CHUNK`` samples, one uniform per sample and step
+for the edge where the state branches, one for the character).
 
 Cost: tables O(L × (E + n)) cells for lengths up to L over E edges and n
 states (a float64 threshold and an int32 alias, 12 bytes per cell), built
@@ -122,7 +123,7 @@ class FloatTables:
         else:
             self._range_lo = np.array([lo for rs in ranges for lo, _ in rs], dtype=np.int64)
             starts, key = [], 0
-            for rs, w in zip(ranges, widths.tolist()):
+            for rs in ranges:
                 for lo, hi in rs:
                     starts.append(key)
                     key += hi - lo + 1
