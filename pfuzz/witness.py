@@ -96,7 +96,7 @@ class _Corrector:
                                      "compare the text with")
         quick = self._one_edit(text, cls)
         if quick is not None:
-            return quick
+            return quick[0]
         ceiling = len(text) + self.shortest
         b = min(max(bound or 2, 2), ceiling)
         while True:
@@ -108,7 +108,13 @@ class _Corrector:
         witness, edits = self._walk(problem)
         return Explanation(text, False, witness, problem.best // problem.unit, edits)
 
-    def _one_edit(self, text: str, cls: list[int]) -> Explanation | None:
+    def one_edit(self, text: str) -> "tuple[Explanation, tuple[str, ...]] | None":
+        """For a rejected text one edit from L: its explanation and every kind of edit
+        (from some valid string) that makes it; None otherwise."""
+        cls = self.classes_of(text)
+        return None if self.accepts(cls) else self._one_edit(text, cls)
+
+    def _one_edit(self, text: str, cls: list[int]):
         """The answer when the text is one edit from L, else None (the common case, made fast).
 
         Every string at distance 1 is one edit of the text at a position the
@@ -150,7 +156,9 @@ class _Corrector:
             return None
         _, witness, i, kind, new = min(found)
         step = (kind, i) if kind in ("insert", "swap") else (kind, i, new)
-        return Explanation(text, False, witness, 1, self._script((step, None), text))
+        kinds = tuple(k for k in ("delete", "insert", "replace", "swap")
+                      if any(f[3] == k for f in found))
+        return Explanation(text, False, witness, 1, self._script((step, None), text)), kinds
 
     def _costs(self, problem: "_Problem", bound: int) -> None:
         """h[i][q]: least weight from node (i, q) to the end, for nodes within ``bound`` edits."""

@@ -10,7 +10,7 @@ from scipy.stats import chisquare
 import pfuzz
 from pfuzz.counting import Counter
 from pfuzz.errors import EmptyLanguageError, PfuzzError
-from pfuzz.nearmiss import (KINDS, edge_characters, kinds_of, near_miss_dfa, sample_rejects)
+from pfuzz.nearmiss import KINDS, kinds_of, near_miss_dfa, sample_rejects
 from pfuzz.witness import apply_edits
 
 
@@ -105,12 +105,6 @@ def test_results_are_cached_and_wrapped_by_the_language():
 
 
 # -- range edges --------------------------------------------------------------------------
-
-def test_edge_characters_are_just_outside_each_transition():
-    lang = pfuzz.compile("[0-5]")
-    (only,) = edge_characters(lang.dfa)[0].values()
-    assert only == {ord("/"), ord("6")}
-
 
 def test_edge_mode_writes_only_edge_characters():
     # L = [0-5]. Edges of the one transition: '/' and '6'. Substitutions write
