@@ -45,7 +45,7 @@ from __future__ import annotations
 from typing import Callable
 
 from . import dfa as automata
-from .charset import CharSet, partition
+from .charset import ALL, CharSet, partition
 from .dfa import DEAD, DEFAULT_STATE_CAP, DFA
 from .nfa import ASSERT, CHAR, NFA, build
 from .tree import Alternation, Anchor, Chars, Lookahead, Node, Repeat, Sequence
@@ -64,13 +64,36 @@ _NO_THREADS: frozenset = frozenset()
 Resolver = Callable[[Chars, CharSet], CharSet]
 
 
+#: How a pattern is applied to a string, as the methods of a compiled ``re`` pattern.
+MODES = ("fullmatch", "match", "search")
+
+
 def compile_dfa(pattern: str, universe: CharSet, flags: int = 0,
-                cap: int = DEFAULT_STATE_CAP) -> DFA:
+                cap: int = DEFAULT_STATE_CAP, mode: str = "fullmatch") -> DFA:
     """The canonical minimal DFA of the strings over ``universe`` that
-    ``re.fullmatch(pattern, s, flags)`` accepts."""
+    ``re.fullmatch(pattern, s, flags)`` accepts (or ``re.match`` / ``re.search``
+    with ``mode``)."""
     from .syntax import parse
 
-    return compile_tree(parse(pattern, flags), universe, cap=cap)
+    return compile_tree(in_mode(parse(pattern, flags), mode), universe, cap=cap)
+
+
+def in_mode(tree: Node, mode: str) -> Node:
+    """The tree whose full matches are the strings ``mode`` accepts.
+
+    ``re.match`` accepts s when a prefix of s matches with assertions judged
+    against all of s, which is a full match of P·(?s:.*); ``re.search`` is a
+    full match of (?s:.*)·P·(?s:.*). Concatenating languages instead (L·U*)
+    would be wrong for ``$``: ``re.match(r"\\d+$", s)`` accepts "12\\n" but not "12x".
+    """
+    anything = Repeat(Chars(ALL), 0, None)
+    if mode == "fullmatch":
+        return tree
+    if mode == "match":
+        return Sequence((tree, anything))
+    if mode == "search":
+        return Sequence((anything, tree, anything))
+    raise ValueError(f"unknown match mode {mode!r}: use one of {', '.join(MODES)}")
 
 
 def compile_tree(tree: Node, universe: CharSet, cap: int = DEFAULT_STATE_CAP,

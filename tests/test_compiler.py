@@ -10,7 +10,7 @@ import pytest
 import pfuzz
 from pfuzz import dfa as automata
 from pfuzz.charset import ALL, UNIVERSES, CharSet
-from pfuzz.compiler import compile_tree
+from pfuzz.compiler import compile_dfa, compile_tree
 from pfuzz.errors import PatternError, StateLimitError
 from pfuzz.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
 
@@ -224,3 +224,13 @@ def test_unsupported_constructs_raise_pattern_errors_with_positions(pattern, pos
     with pytest.raises(PatternError) as caught:
         lang(pattern)
     assert caught.value.position == position
+
+
+def test_match_modes():
+    digits = CharSet.from_chars("12\nx")
+    # re.match(r"\d+$", ...) accepts "12" and "12\n"; re.search also accepts "x12".
+    assert accepted(compile_dfa(r"\d+$", digits, mode="match"), "1\nx", 3) == {
+        "1", "11", "111", "1\n", "11\n"}
+    assert compile_dfa(r"\d+$", digits, mode="search").accepts("x12\n")
+    with pytest.raises(ValueError, match="unknown match mode"):
+        compile_dfa("a", digits, mode="prefix")
