@@ -6,11 +6,11 @@ sets (and ``'\\n'``) are partitioned into disjoint classes
 (``pfuzz.charset.partition``); Thompson's construction (``pfuzz.nfa``) gives an
 ε-NFA over class indexes; the subset construction of Rabin & Scott (1959), run
 by ``pfuzz.dfa.explore`` over the configurations below, gives a DFA, and
-Hopcroft's algorithm (``pfuzz.dfa.minimise``) the canonical minimal one.
+``pfuzz.dfa.minimise`` (partition refinement) the canonical minimal one.
 
 Assertions are exact, wherever they stand. A DFA configuration is a set of
-*threads*; a thread is an NFA state plus a frozenset of *obligations* on the
-rest of the string, each a (constraint, state) pair of a small DFA that reads
+*threads*; a thread is an NFA state plus a set of *obligations* on the
+rest of the string (sets are interned as integers), each a (constraint, state) pair of a small DFA that reads
 every later character and must accept at the end of the input:
 
 - ``^`` / ``\\A`` and ``(?m)^`` look back one character. The context of a
@@ -34,10 +34,19 @@ lookaheads share one. This gives exactly L(Y) ∩ P(X) for ``(?=X)Y`` at the
 start, and the password idiom ``^(?=.*\\d)(?=.{8,64}$).*$`` costs about the
 product of its lookaheads' automata, as the minimal DFA must.
 
+``mode="match"`` / ``"search"`` compile what ``re.match`` / ``re.search``
+accept, as full matches of P(?s:.*) and (?s:.*)P(?s:.*) (see ``in_mode``).
+
 Cost: linear in the number of DFA configurations times the classes times the
 threads per configuration; bounded repeats are expanded with nested optionals
 (see ``pfuzz.nfa``) so ``[a-z0-9]{1,256}`` has two threads per configuration.
-Every construction stops at ``cap`` states with ``StateLimitError``.
+Measured in pure Python: about 10 µs per state of the minimal DFA for
+``(a|b)*a(a|b){16}`` (131,072 states in about 1.5 s), about 30 µs per state
+for products of lookaheads (a four-lookahead password rule: 976 states in
+about 30 ms). Limits: every construction stops at ``cap`` states with
+``StateLimitError``, and the expanded NFA at ``NFA_STATES_PER_CAP × cap``
+states before it is built; no assertion is refused, lookaheads nested in
+lookaheads included.
 """
 
 from __future__ import annotations
