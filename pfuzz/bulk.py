@@ -81,8 +81,6 @@ class FloatTables:
         self._edges(counter)
         q, self.start_mantissa, self.start_exponent = self.probabilities(max_length)
         self.limit, self.alias = self._alias_tables(q)
-        self._limit_flat = self.limit.reshape(-1)
-        self._alias_flat = self.alias.reshape(-1)
         self._separator, self._codes_dtype, self._encoding = _codec(counter.dfa.universe)
 
     # -- structure ----------------------------------------------------------------------
@@ -219,7 +217,10 @@ class FloatTables:
             raise ValueError("tables too short for the lengths asked")
         if len(lengths) and lengths.min() == lengths.max():
             return self._sample_sorted(lengths, generator, progress)
-        order = np.argsort(-lengths, kind="stable")
+        key = -lengths
+        if lengths.max() < 2**15:
+            key = key.astype(np.int16)  # a stable sort of int16 is a radix sort
+        order = np.argsort(key, kind="stable")
         result = np.empty(len(lengths), dtype=object)
         result[order] = self._sample_sorted(lengths[order], generator, progress)
         return result.tolist()
@@ -253,17 +254,16 @@ class FloatTables:
             remaining = top - step
             m = int(np.searchsorted(negative, -remaining, side="right"))
             here = where[:m]
-            chosen = self._choose(here, remaining * self.n_slots, generator) if branching else here
+            chosen = self._choose(here, remaining, generator) if branching else here
             codes[step, :m] = self._characters(chosen, generator)
             where[:m] = self.next_base[chosen]
         return codes.T
 
-    def _choose(self, here, row, generator) -> np.ndarray:
-        """Alias draw: a uniform slot of the state, kept below its threshold, else its alias."""
+    def _choose(self, here, remaining: int, generator) -> np.ndarray:
+        """Alias draw: a uniform slot of the state, kept below its limit, else its alias."""
         x = generator.random(len(here)) * self.slot_fanout[here]
         slot = here + x.astype(np.int64)
-        flat = row + slot
-        return np.where(x < self._limit_flat[flat], slot, self._alias_flat[flat])
+        return np.where(x < self.limit[remaining][slot], slot, self.alias[remaining][slot])
 
     def _characters(self, chosen, generator) -> np.ndarray:
         """A uniform character among the chosen edge's characters."""
