@@ -41,7 +41,7 @@ from .neighbourhood import KINDS, build, edge_characters
 from .witness import Edit, Explanation, by_identity, corrector, explain
 
 __all__ = ["KINDS", "Edit", "Explanation", "Reject", "edge_characters", "explain",
-           "kinds_of", "near_miss_dfa", "sample_rejects"]
+           "kinds_of", "length_range", "near_miss_dfa", "sample_rejects"]
 
 
 # -- arguments -------------------------------------------------------------------------
@@ -169,8 +169,8 @@ def sample_rejects(dfa: DFA, n: int, *, distance: int = 1, kinds: "Sequence[str]
     whose language has no strings in the length range give their share to
     the others), and the strata are interleaved in the order of ``KINDS``.
     Within a stratum, a length is chosen uniformly among the lengths in range
-    that have strings, then a string uniformly at that length
-    (``pfuzz.counting``). ``edges`` draws from the range-edge languages (see
+    (``length_range``) that have strings, then a string uniformly at that
+    length (``pfuzz.counting``). ``edges`` draws from the range-edge languages (see
     the module docstring). ``progress``, if given, is called with the number
     of rejects finished since its last call. Same seed, same output.
     """
@@ -178,12 +178,14 @@ def sample_rejects(dfa: DFA, n: int, *, distance: int = 1, kinds: "Sequence[str]
         raise PfuzzError(f"the number of rejects must be an integer >= 0, got {n!r}")
     distance = check_distance(distance)
     strata = [None] if kinds is None else [[k] for k in check_kinds(kinds)]
+    low, high = length_range(dfa, distance, kinds, min_length, max_length, edges=edges)
     rng = randomness.source(seed)
-    counters = [_counter(near_miss_dfa(dfa, distance, kinds, edges=edges)) for kinds in strata]
-    filled = [c for c in counters if c.lengths(max_length, min_length)]
+    counters = [_counter(near_miss_dfa(dfa, distance, stratum, edges=edges))
+                for stratum in strata]
+    filled = [c for c in counters if c.lengths(high, low)]
     if not filled:
         raise EmptyLanguageError(_nothing_to_draw(distance, min_length, max_length))
-    draws = [c.sample(share, min_length=min_length, max_length=max_length, seed=rng)
+    draws = [c.sample(share, min_length=low, max_length=high, seed=rng)
              for c, share in zip(filled, _shares(n, len(filled)))]
     texts = [batch[i] for i in range(max(map(len, draws))) for batch in draws if i < len(batch)]
     rejects, rejecter = [], _Rejecter(dfa, distance)
@@ -197,6 +199,16 @@ def sample_rejects(dfa: DFA, n: int, *, distance: int = 1, kinds: "Sequence[str]
 
 
 _PROGRESS_STEP = 1024
+
+
+def length_range(dfa: DFA, distance: int = 1, kinds: "Sequence[str] | None" = None,
+                 min_length: int | None = None, max_length: int | None = None, *,
+                 edges: bool = False) -> tuple[int, int]:
+    """The lengths ``sample_rejects`` draws from: the bounds given, else those of the
+    near-miss language of all the kinds asked (``pfuzz.counting`` defaults: its
+    shortest and longest string, or ``UNBOUNDED_SPAN`` above the shortest)."""
+    whole = near_miss_dfa(dfa, distance, kinds, edges=edges)
+    return _counter(whole).bounds(min_length, max_length)
 
 
 def _shares(n: int, parts: int) -> list[int]:

@@ -111,3 +111,10 @@ def test_explain_empty_language_is_an_error():
 def test_help_has_examples():
     for command in ("reject", "explain"):
         assert "Example:" in run(command, "--help").stdout
+
+
+def test_reject_says_when_the_length_bound_was_defaulted():
+    assert "unbounded: lengths up to 34" in run("reject", "[a-z]+@x", "-n", "3").stderr
+    assert run("reject", PLATE, "-n", "3").stderr == ""
+    assert run("reject", "[a-z]+@x", "-n", "3", "--max-length", "5").stderr == ""
+    assert run("reject", PLATE, "--min-length", "5", "--max-length", "4").exit_code == 2

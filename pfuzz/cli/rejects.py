@@ -14,8 +14,10 @@ import sys
 
 import click
 
-from ..nearmiss import KINDS, sample_rejects
-from .common import (EXIT_DIFFERENT, compile_language, emit, escape_text, format_option,
+from ..counting import UNBOUNDED_SPAN
+from ..dfa import is_finite
+from ..nearmiss import KINDS, length_range, near_miss_dfa, sample_rejects
+from .common import (EXIT_DIFFERENT, compile_language, emit, escape_text, fail, format_option,
                      language_options, max_length_option, min_length_option, out_option,
                      pattern_input, report_errors, seed_option)
 from .sampling import PROGRESS_MIN, PROGRESS_TTY_MIN, _render_strings
@@ -56,8 +58,16 @@ def reject(pattern, universe, flags, state_cap, how_many, distance, kinds, edges
       pfuzz reject '[0-9]{4}-[0-9]{2}' -n 100 --edges --format jsonl --out rejects.jsonl
     """
     lang = compile_language(pattern, universe, flags, state_cap)
-    arguments = dict(distance=distance, kinds=list(kinds) or None, seed=seed,
-                     min_length=min_length, max_length=max_length, edges=edges)
+    if min_length is not None and max_length is not None and min_length > max_length:
+        fail(f"--min-length {min_length} is greater than --max-length {max_length}")
+    asked = list(kinds) or None
+    low, high = length_range(lang.dfa, distance, asked, min_length, max_length, edges=edges)
+    if max_length is None and not is_finite(near_miss_dfa(lang.dfa, distance, asked, edges=edges)):
+        click.echo(f"pfuzz: the near-miss language is unbounded: lengths up to {high} "
+                   f"({UNBOUNDED_SPAN} above the shortest considered); set --max-length to "
+                   "change it", err=True)
+    arguments = dict(distance=distance, kinds=asked, seed=seed, min_length=low,
+                     max_length=high, edges=edges)
     show = how_many >= PROGRESS_MIN or (how_many >= PROGRESS_TTY_MIN and sys.stderr.isatty())
     if show:
         with click.progressbar(length=how_many, label="rejects", file=sys.stderr) as bar:
