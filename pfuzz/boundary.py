@@ -35,9 +35,10 @@ dropped and its reason joined to the first, which keeps its category):
    reason reports the cover's size. Automata that track several conditions at
    once (a password policy) need many strings: every string passes at most
    one of the transitions that complete the last condition.
-6. ``exit``: for each distinct set of allowed next characters among the
-   states where some character of the universe leads to rejection, one reject
-   that leaves the language at the first such state: the shortest valid
+6. ``exit``: for each distinct pair (set of allowed next characters, whether
+   the string so far is valid) among the states where some character of the
+   universe leads to rejection, one reject that leaves the language at the
+   first such state: the shortest valid
    string through the state with its next character replaced by a rejected
    one (one not adjacent to an allowed character when there is such, else the
    smallest), or the rejected character appended when the state accepts.
@@ -204,17 +205,21 @@ def _exits(guide: Guide) -> list[Case]:
     for s in guide.reachable:
         allowed = guide.allowed(s)
         rejected = universe - allowed
-        if not rejected or allowed in done:
+        key = (allowed, s in guide.dfa.accepting)
+        if not rejected or key in done:
             continue
-        done.add(allowed)
+        done.add(key)
         near = CharSet.of((lo - 1, hi + 1) for lo, hi in allowed.ranges)
         bad = (rejected - near or rejected).min
         prefix, tail = guide.prefix(s), guide.completion(s)
         where = f"at position {len(prefix) + 1}"
-        if allowed:
-            why = f"{_q(bad)} leaves the language {where}, where only {_show_set(allowed)} may come"
-        else:
+        if not allowed:
             why = f"{_q(bad)} {where}, after a complete valid string that nothing may follow"
+        elif not tail:
+            why = (f"{_q(bad)} {where}, after the valid string {prefix!r}, which only "
+                   f"{_show_set(allowed)} may follow")
+        else:
+            why = f"{_q(bad)} leaves the language {where}, where only {_show_set(allowed)} may come"
         cases.append(Case(prefix + chr(bad) + tail[1:], False, "exit", why))
     return cases
 

@@ -154,6 +154,18 @@ def test_length_edges_of_a_periodic_language():
     assert all(not c.expected for c in edges)
 
 
+def test_exit_after_a_valid_string_is_kept_apart():
+    # '0 ': a trailing character after a complete valid string, a classic validator slip
+    cases = suite(dfa_of(["a", "aa", "aaa"]))
+    exits = [c for c in cases if c.category == "exit"]
+    # 'c' rather than 'b': a rejected character not adjacent to the allowed 'a' is preferred
+    assert [(c.text, c.expected) for c in exits] == [("c", False), ("ac", False)]
+    assert "after the valid string 'a'" in exits[1].reason
+    # the exit after the longest string is the length edge 'aaaa', its reason joined
+    (longer,) = [c for c in cases if c.text == "aaaa"]
+    assert longer.category == "length-edge" and "nothing may follow" in longer.reason
+
+
 def test_empty_language_has_an_empty_suite():
     assert suite(dfa_of([])) == []
     assert coverage(dfa_of([])) == []
@@ -240,7 +252,8 @@ def test_size_bounds(pattern):
     allowed = {s: CharSet() for s in range(dfa.n_states)}
     for s, label, _ in edges:
         allowed[s] = allowed[s] | label
-    assert count["exit"] <= len(set(allowed.values())) <= dfa.n_states
+    kinds = {(allowed[s], s in dfa.accepting) for s in allowed}
+    assert count["exit"] <= len(kinds) <= dfa.n_states
     # boundary value analysis keeps suites small: a handful of cases per transition
     assert len(cases) <= 6 * ranges + 2 * dfa.n_states + 8
 
