@@ -15,7 +15,8 @@ does not allow). Kinds name edits that turn the valid w into s; the DP with
 only those operations gives the restricted distance.
 
 Sizes: distance 1 over {a, b, c} up to length 7; distance 2 over {a, b} up
-to length 7 and over {a, b, c} up to length 5 (to keep the run short).
+to length 7 and over {a, b, c} up to length 5; the per-kind languages and
+the witnesses up to length 6 (all to keep the run short).
 """
 
 from __future__ import annotations
