@@ -6,6 +6,7 @@ import re
 import time
 
 import pytest
+from hypothesis import given, settings, strategies as st
 
 from pfuzz.categories import category
 from pfuzz.charset import ALL, CharSet
@@ -211,3 +212,29 @@ def test_realistic_patterns_parse_in_well_under_a_millisecond():
             parse(pattern)
             timings.append(time.perf_counter() - start)
         assert sorted(timings)[len(timings) // 2] < 2e-3, (pattern, timings)
+
+
+# -- arbitrary text ------------------------------------------------------------------
+
+SYNTAX_SOUP = st.lists(st.sampled_from(list("ab\\()[]{}|*+?^$.-,:=!<>#PiLmsxau0123dwsbBAZNxU\n ")
+                                       + ["(?", "(?P<n>", "\\x4"]), max_size=14).map("".join)
+
+
+@pytest.mark.filterwarnings("ignore::FutureWarning")  # re's "possible nested set" notes
+@settings(max_examples=400, deadline=None, database=None)
+@given(SYNTAX_SOUP)
+def test_any_text_gives_a_tree_or_a_pattern_error_that_agrees_with_re(text):
+    try:
+        re.compile(text)  # reference: Python's re decides what is a syntax error
+        re_error = None
+    except (re.error, OverflowError, ValueError) as error:
+        re_error = error
+    try:
+        parse(text)
+    except PatternError as error:
+        if isinstance(re_error, re.error) and re_error.pos is not None:
+            assert (error.message, error.position) == (re_error.msg, re_error.pos)
+        elif re_error is None:
+            assert "not supported" in error.message or "not regular" in error.message, error.message
+    else:
+        assert re_error is None
