@@ -162,20 +162,41 @@ def audit_universe(spec_universe: CharSet, reject_universe: str) -> CharSet:
     return spec_universe | resolve_universe(reject_universe) | HOSTILE_CHARACTERS
 
 
-def build_cases(spec: Language, settings: Settings = Settings()) -> tuple[list[AuditCase], list[str]]:
-    """The audit's cases in the documented order, and notes on anything left out."""
+def stages(settings: Settings, exact: bool = False) -> list[str]:
+    """The names of the steps an audit takes, in order (for a progress display)."""
+    names = ["boundary suite"] if settings.boundary else []
+    names += ["valid strings", "hostile and case-flip cases", "range-edge rejects"]
+    names += [f"{kind} rejects" for kind in settings.kinds]
+    return names + ["running the validator"] + (["exact comparison"] if exact else [])
+
+
+def _silent(_stage: str) -> None:
+    return None
+
+
+def build_cases(spec: Language, settings: Settings = Settings(),
+                progress=_silent) -> tuple[list[AuditCase], list[str]]:
+    """The audit's cases in the documented order, and notes on anything left out.
+
+    ``progress(stage)`` is called as each of ``stages(settings)`` begins.
+    """
     if spec.is_empty():
         raise EmptyLanguageError("the specification accepts no string: there is nothing to audit")
     wide = lift(spec, audit_universe(spec.universe, settings.reject_universe))
     rng = randomness.source(settings.seed)
     notes: list[str] = []
-    boundary = [_boundary_case(wide, c) for c in spec.boundary_cases()] if settings.boundary else []
+    boundary = []
+    if settings.boundary:
+        progress("boundary suite")
+        boundary = [_boundary_case(wide, c) for c in spec.boundary_cases()]
+    progress("valid strings")
     valid = spec.sample(settings.valid, seed=rng) if settings.valid else []
+    progress("hostile and case-flip cases")
     witnesses = _witnesses([c.text for c in boundary if c.expected] + valid, spec)
     cases = [*boundary,
              *(_variant_case(v, "hostile") for v in hostile_variants(witnesses) if settings.hostile),
              *(_variant_case(v, "case-flip") for v in case_flips(witnesses) if settings.case_flip),
-             *_near_misses(wide, settings, rng, notes),
+             *_near_misses(wide, settings, rng, notes, progress),
              *(AuditCase(t, True, "valid", "sample", "sampled uniformly by length") for t in valid)]
     return _keep_first(cases, wide), notes
 
@@ -202,7 +223,8 @@ def _variant_case(variant: Variant, category: str) -> AuditCase:
                      variant.witness, variant.edits)
 
 
-def _near_misses(wide: Language, settings: Settings, rng, notes: list[str]) -> list[AuditCase]:
+def _near_misses(wide: Language, settings: Settings, rng, notes: list[str],
+                 progress=_silent) -> list[AuditCase]:
     """Range-edge near-misses first, then an equal share for each edit kind."""
     edges = settings.rejects // EDGE_SHARE
     rest = settings.rejects - edges
@@ -212,6 +234,7 @@ def _near_misses(wide: Language, settings: Settings, rng, notes: list[str]) -> l
               for i, kind in enumerate(kinds)]
     out = []
     for count, options, category, kind in draws:
+        progress(f"{kind or category} rejects")
         if not count:
             continue
         try:
@@ -252,14 +275,19 @@ def _keep_first(cases: list[AuditCase], wide: Language) -> list[AuditCase]:
 # -- running ----------------------------------------------------------------------------
 
 def run_audit(spec: Language, target, settings: Settings = Settings(), *,
-              spec_label: str | None = None) -> AuditReport:
-    """Build the cases, ask the target, and (for a regex target) compare the languages exactly."""
-    cases, notes = build_cases(spec, settings)
+              spec_label: str | None = None, progress=_silent) -> AuditReport:
+    """Build the cases, ask the target, and (for a regex target) compare the languages exactly.
+
+    ``progress(stage)`` is called as each of ``stages(settings, exact)`` begins.
+    """
+    cases, notes = build_cases(spec, settings, progress)
+    progress("running the validator")
     verdicts = target.run([c.text for c in cases])
     wide_universe = audit_universe(spec.universe, settings.reject_universe)
     report = AuditReport(spec_label or spec.pattern or "specification", target.label,
                          spec.universe_name, wide_universe, settings, cases, verdicts, notes=notes)
     if isinstance(target, RegexTarget):
+        progress("exact comparison")
         report.exact, report.exact_note = exact_comparison(spec, target, wide_universe)
     return report
 

@@ -14,7 +14,7 @@ from pathlib import Path
 import pytest
 
 import pfuzz
-from pfuzz.audit import CATEGORY_ORDER, Settings, audit_universe, build_cases, run_audit
+from pfuzz.audit import CATEGORY_ORDER, Settings, audit_universe, build_cases, run_audit, stages
 from pfuzz.errors import EmptyLanguageError
 from pfuzz.hostile import HOSTILE_CHARACTERS, HOSTILE_KINDS, case_flips, hostile_variants
 from pfuzz.targets import PythonTarget, RegexTarget
@@ -174,3 +174,10 @@ def test_unsupported_regex_still_runs_the_cases():
     report = run_audit(spec, RegexTarget(r"(\w)\1"), Settings(valid=20, rejects=20))
     assert report.exact is None and "cannot compile" in report.exact_note
     assert any(f.wrong_accept for f in report.findings)  # e.g. "00": \w also takes digits
+
+
+def test_progress_reports_every_stage_in_order():
+    seen: list[str] = []
+    settings = Settings(valid=10, rejects=10)
+    run_audit(pfuzz.compile("[a-z]{2}"), RegexTarget("[a-z]{2}"), settings, progress=seen.append)
+    assert seen == stages(settings, exact=True)

@@ -9,7 +9,7 @@ from pathlib import Path
 import click
 
 from ..audit import (DEFAULT_REJECT_UNIVERSE, DEFAULT_REJECTS, DEFAULT_VALID, EDIT_KINDS,
-                     AuditReport, Settings, run_audit)
+                     AuditReport, Settings, run_audit, stages)
 from ..targets import DEFAULT_TIMEOUT, MODES, CommandTarget, PythonTarget, RegexTarget, TargetError
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
                      language_options, out_option, report_errors, seed_option)
@@ -81,7 +81,7 @@ def audit(profile, pattern, pattern_file, field, python_target, command, regex, 
                         hostile=not no_hostile, case_flip=not no_case_flip)
     target = _target(python_target, command, regex, mode, timeout)
     try:
-        report = run_audit(spec, target, settings, spec_label=label)
+        report = _run_with_progress(spec, target, settings, label)
     except TargetError as error:
         fail(f"the validator {target.label} could not be audited: {error}", error.detail)
     if fmt == "json":
@@ -89,6 +89,24 @@ def audit(profile, pattern, pattern_file, field, python_target, command, regex, 
     else:
         emit("\n".join(report_lines(report, show)) + "\n", out)
     sys.exit(EXIT_OK if report.agrees else EXIT_DIFFERENT)
+
+
+def _run_with_progress(spec, target, settings, label) -> AuditReport:
+    """The audit, with a progress bar of its stages on stderr when stderr is a terminal."""
+    if not sys.stderr.isatty():
+        return run_audit(spec, target, settings, spec_label=label)
+    names = stages(settings, exact=isinstance(target, RegexTarget))
+    with click.progressbar(length=len(names), label="auditing", file=sys.stderr,
+                           item_show_func=lambda stage: stage) as bar:
+        seen: list[str] = []
+
+        def advance(stage: str) -> None:
+            bar.update(1 if seen else 0, stage)
+            seen.append(stage)
+
+        report = run_audit(spec, target, settings, spec_label=label, progress=advance)
+        bar.update(1)
+    return report
 
 
 def _specification(profile, pattern, pattern_file, field, universe, flags, state_cap):
