@@ -238,3 +238,12 @@ def test_rejected_strategy_shrinks_to_the_shortlex_least_reject():
     assert find(rejected("[0-9]{3}"), lambda s: len(s) == 4, settings=quiet) == " 000"
     with pytest.raises(EmptyLanguageError):
         rejected("[ab]*", universe="[ab]")
+
+
+def test_lengths_are_equally_likely():
+    # [0-9]{3} has near misses of lengths 2, 3 and 4 only (see the counts above);
+    # "even" lengths: each a third of the draws (chi-squared, scipy.stats).
+    lang = pfuzz.compile("[0-9]{3}")
+    draws = sample_rejects(lang.dfa, 3000, seed=4)
+    observed = [sum(1 for r in draws if len(r.text) == n) for n in (2, 3, 4)]
+    assert sum(observed) == 3000 and chisquare(observed).pvalue > 1e-3
