@@ -29,7 +29,7 @@ from __future__ import annotations
 from .charset import CharSet
 
 #: What each node built is charged against a work budget, besides its text.
-NODE_CHARGE = 16
+NODE_CHARGE = 64
 #: The pattern of the empty language: a class with no character in it.
 NOTHING_TEXT = r"[^\s\S]"
 
