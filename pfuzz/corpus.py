@@ -200,10 +200,10 @@ def _field_files(made: FieldCases):
     reject_ids = case_ids(f"{name}:reject", len(made.rejects))
     reject_rows, reject_cases = [], []
     for i, r in zip(reject_ids, made.rejects):
-        reject_rows.append({**r.as_dict(), "id": i, "length": len(r.text),
-                            "script": edit_list(r)})
+        script = edit_list(r)
+        reject_rows.append({**r.as_dict(), "id": i, "length": len(r.text), "script": script})
         reject_cases.append((i, name, r.text, REJECT, "near-miss", reject_reason(r),
-                             r.witness, "; ".join(edit_list(r)), f"{base}/rejects.jsonl"))
+                             r.witness, "; ".join(script), f"{base}/rejects.jsonl"))
     boundary_ids = case_ids(f"{name}:boundary", len(made.boundary))
     boundary_rows = [{"id": i, "text": c.text, "expected": ACCEPT if c.expected else REJECT,
                       "category": c.category, "reason": c.reason}

@@ -48,10 +48,16 @@ class CorpusExistsError(PfuzzError):
     """The output directory exists and may not (or cannot safely) be replaced."""
 
 
+_LINE_ENCODER = json.JSONEncoder(ensure_ascii=False, sort_keys=True)
+
+
 def json_text(value, indent: int | None = None, sort_keys: bool = True) -> str:
     """Deterministic JSON: sorted keys (or the caller's fixed order), UTF-8 text, no raw
     line-breaking characters."""
-    text = json.dumps(value, ensure_ascii=False, sort_keys=sort_keys, indent=indent)
+    if indent is None and sort_keys:
+        text = _LINE_ENCODER.encode(value)
+    else:
+        text = json.dumps(value, ensure_ascii=False, sort_keys=sort_keys, indent=indent)
     for char, escape in _LINE_BREAKERS.items():
         text = text.replace(char, escape)
     return text

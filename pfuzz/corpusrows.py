@@ -20,10 +20,10 @@ per field, one Faker per context column.
 
 from __future__ import annotations
 
-import json
 from dataclasses import dataclass
 
 from . import records
+from .corpusfiles import json_text
 from .profile import Record
 from .randomness import RandomSource
 
@@ -109,7 +109,7 @@ def _reason(bad: str, reject) -> str:
 
 
 def _row_json(row: dict) -> str:
-    return json.dumps(row, ensure_ascii=False)
+    return json_text(row, sort_keys=False)
 
 
 def record_tables(record: Record, made: dict, seeds: dict) -> RecordTables:

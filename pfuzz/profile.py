@@ -36,6 +36,7 @@ from . import records
 from .charset import DEFAULT_UNIVERSE
 from .dfa import explore, minimise
 from .errors import PatternError, PfuzzError, StateLimitError, UniverseError
+from .nearmiss import KINDS as EDIT_KINDS
 
 DEFAULT_VALID = 100          #: valid strings per field
 DEFAULT_INVALID = 100        #: near-miss rejects per field
@@ -44,7 +45,6 @@ MAX_DISTANCE = 3             #: larger distances build very large automata
 DEFAULT_VALID_ROWS = 50      #: valid record rows
 DEFAULT_INVALID_ROWS = 50    #: record rows with exactly one near-miss field
 MAX_COUNT = 10_000_000       #: upper limit of any count key
-EDIT_KINDS = ("delete", "insert", "replace", "swap")
 FLAG_NAMES = ("IGNORECASE", "MULTILINE", "DOTALL", "ASCII", "VERBOSE")
 NAME_RULE = re.compile(r"[a-z][a-z0-9_]*")
 #: Column names the corpus writer adds to record tables; a record column may not use them.
