@@ -92,6 +92,8 @@ class Settings:
     boundary: bool = True
     hostile: bool = True
     case_flip: bool = True
+    min_length: int | None = None   #: bounds the sampled valid strings and rejects
+    max_length: int | None = None   #: ... and the boundary suite's length scan
 
 
 @dataclass(frozen=True)
@@ -188,9 +190,10 @@ def build_cases(spec: Language, settings: Settings = Settings(),
     boundary = []
     if settings.boundary:
         progress("boundary suite")
-        boundary = [_boundary_case(wide, c) for c in spec.boundary_cases()]
+        boundary = [_boundary_case(wide, c) for c in spec.boundary_cases(settings.max_length)]
     progress("valid strings")
-    valid = spec.sample(settings.valid, seed=rng) if settings.valid else []
+    bounds = {"min_length": settings.min_length, "max_length": settings.max_length}
+    valid = spec.sample(settings.valid, seed=rng, **bounds) if settings.valid else []
     progress("hostile and case-flip cases")
     witnesses = _witnesses([c.text for c in boundary if c.expected] + valid, spec)
     cases = [*boundary,
@@ -238,7 +241,8 @@ def _near_misses(wide: Language, settings: Settings, rng, notes: list[str],
         if not count:
             continue
         try:
-            drawn = wide.rejects(count, distance=settings.distance, seed=rng, **options)
+            drawn = wide.rejects(count, distance=settings.distance, seed=rng, **options,
+                                 min_length=settings.min_length, max_length=settings.max_length)
         except EmptyLanguageError as error:
             notes.append(f"no {category} {kind} rejects: {error}".replace("  ", " "))
             continue

@@ -181,3 +181,10 @@ def test_progress_reports_every_stage_in_order():
     settings = Settings(valid=10, rejects=10)
     run_audit(pfuzz.compile("[a-z]{2}"), RegexTarget("[a-z]{2}"), settings, progress=seen.append)
     assert seen == stages(settings, exact=True)
+
+
+def test_length_bounds_apply_to_sampled_cases():
+    cases, _ = build_cases(pfuzz.compile("[a-z]+[0-9]*"), Settings(valid=60, rejects=60, min_length=3,
+                                                                    max_length=5))
+    sampled = [c for c in cases if c.category in ("valid", "near-miss")]
+    assert sampled and all(3 <= len(c.text) <= 5 for c in sampled)

@@ -12,7 +12,8 @@ from ..audit import (DEFAULT_REJECT_UNIVERSE, DEFAULT_REJECTS, DEFAULT_VALID, ED
                      AuditReport, Settings, run_audit, stages)
 from ..targets import DEFAULT_TIMEOUT, MODES, CommandTarget, PythonTarget, RegexTarget, TargetError
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
-                     language_options, out_option, report_errors, seed_option)
+                     language_options, max_length_option, min_length_option, out_option,
+                     report_errors, seed_option)
 from .diff import comparison_dict, comparison_lines, quote
 
 #: Failures listed per category in the text report (JSON lists them all).
@@ -35,6 +36,8 @@ EXACT_ROWS = 6
 @click.option("--mode", type=click.Choice(MODES), default="fullmatch", show_default=True,
               help="How the code calls --regex: re.fullmatch, re.match or re.search.")
 @language_options
+@min_length_option
+@max_length_option
 @click.option("--valid", "valid", type=click.IntRange(min=0), default=DEFAULT_VALID,
               show_default=True, help="Valid strings sampled uniformly by length.")
 @click.option("--rejects", type=click.IntRange(min=0), default=DEFAULT_REJECTS, show_default=True,
@@ -55,7 +58,7 @@ EXACT_ROWS = 6
 @out_option
 @report_errors
 def audit(profile, pattern, pattern_file, field, python_target, command, regex, mode, universe,
-          flags, state_cap, valid, rejects, distance, reject_universe, no_boundary, no_hostile,
+          flags, state_cap, min_length, max_length, valid, rejects, distance, reject_universe, no_boundary, no_hostile,
           no_case_flip, timeout, seed, show, fmt, out):
     """Find the strings a validator gets wrong, against a PROFILE field or a --pattern.
 
@@ -71,14 +74,15 @@ def audit(profile, pattern, pattern_file, field, python_target, command, regex, 
     Examples:
       pfuzz audit --pattern '[A-Z]{2}-[0-9]{4}' --target checks:is_ticket
       pfuzz audit --pattern '[0-9]{4}' --regex '\\d{4}$' --mode match
-      pfuzz audit profiles/iso_date.toml --cmd 'node check-date.js'
+      pfuzz audit profiles/iso-date.toml --cmd 'node check-date.js'
     """
     spec, label, field_distance, kinds = _specification(profile, pattern, pattern_file, field,
                                                        universe, flags, state_cap)
     settings = Settings(valid=valid, rejects=rejects, seed=seed,
                         distance=distance or field_distance, kinds=kinds,
                         reject_universe=reject_universe, boundary=not no_boundary,
-                        hostile=not no_hostile, case_flip=not no_case_flip)
+                        hostile=not no_hostile, case_flip=not no_case_flip,
+                        min_length=min_length, max_length=max_length)
     target = _target(python_target, command, regex, mode, timeout)
     try:
         report = _run_with_progress(spec, target, settings, label)
@@ -179,7 +183,8 @@ def report_dict(report: AuditReport) -> dict:
         "audit_universe_ranges": [list(r) for r in report.audit_universe.ranges],
         "settings": {"seed": s.seed, "valid": s.valid, "rejects": s.rejects, "distance": s.distance,
                      "kinds": list(s.kinds), "reject_universe": s.reject_universe,
-                     "boundary": s.boundary, "hostile": s.hostile, "case_flip": s.case_flip},
+                     "boundary": s.boundary, "hostile": s.hostile, "case_flip": s.case_flip,
+                     "min_length": s.min_length, "max_length": s.max_length},
         "summary": report.summary(),
         "findings": [finding_dict(f) for f in report.findings],
         "exact": comparison_dict(report.exact) if report.exact is not None else None,
