@@ -34,12 +34,14 @@ class Language:
     # -- construction ------------------------------------------------------------
     @classmethod
     def compile(cls, pattern: str, universe: "str | CharSet" = "printable", flags: int = 0,
-                *, state_cap: int = DEFAULT_STATE_CAP) -> "Language":
+                *, state_cap: int = DEFAULT_STATE_CAP, mode: str = "fullmatch") -> "Language":
+        """The strings over ``universe`` that ``re.<mode>(pattern, s, flags)`` accepts,
+        where ``mode`` is ``fullmatch`` (the default), ``match`` or ``search``."""
         from .compiler import compile_dfa
         from .universe import resolve_universe, universe_label
 
         alphabet = resolve_universe(universe)
-        dfa = compile_dfa(pattern, alphabet, flags=flags, cap=state_cap)
+        dfa = compile_dfa(pattern, alphabet, flags=flags, cap=state_cap, mode=mode)
         return cls(dfa, pattern=pattern, flags=flags, universe_name=universe_label(universe))
 
     def _wrap(self, dfa: DFA, pattern: str | None = None) -> "Language":
@@ -107,7 +109,8 @@ class Language:
         return self.distinguish(other) is None
 
     def with_any_suffix(self) -> "Language":
-        """L·U*: the strings that start with a string of L (``re.match`` semantics)."""
+        """L·U*: the strings that start with a string of L. Not ``re.match`` of the
+        pattern when it ends in ``$`` (compile with ``mode="match"`` for that)."""
         return self._wrap(automata.with_any_suffix(self.dfa))
 
     def with_any_prefix(self) -> "Language":
@@ -186,6 +189,7 @@ class Language:
 
 
 def compile(pattern: str, universe: "str | CharSet" = "printable", flags: int = 0,
-            *, state_cap: int = DEFAULT_STATE_CAP) -> Language:
-    """Compile a Python ``re`` pattern to the Language ``re.fullmatch`` accepts over ``universe``."""
-    return Language.compile(pattern, universe, flags, state_cap=state_cap)
+            *, state_cap: int = DEFAULT_STATE_CAP, mode: str = "fullmatch") -> Language:
+    """Compile a Python ``re`` pattern to the Language ``re.fullmatch`` accepts over ``universe``
+    (``mode="match"`` or ``"search"`` for what ``re.match`` / ``re.search`` accept)."""
+    return Language.compile(pattern, universe, flags, state_cap=state_cap, mode=mode)
