@@ -50,7 +50,8 @@ reasons count from 1. Characters outside the universe are never used.
 
 Length bound: ``max_length`` bounds the ``longest`` case and the scan for
 length edges. By default it is the language's longest length for a finite
-language and ``min_length + UNBOUNDED_SPAN`` for an unbounded one. The scan
+language and ``min_length + UNBOUNDED_SPAN`` for an unbounded one (the same
+default bound as sampling, ``pfuzz.counting.UNBOUNDED_SPAN``). The scan
 stops early when the set of states reachable in exactly n steps repeats
 (from there the set of valid lengths is periodic, so every kind of edge has
 been seen) or becomes empty. The other cases are built from shortest prefixes

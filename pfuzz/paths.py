@@ -32,11 +32,9 @@ from collections import deque
 from functools import cached_property
 
 from .charset import CharSet
+from .counting import UNBOUNDED_SPAN  # one default length bound for unbounded languages
 from .dfa import DFA
 
-#: For an unbounded language, the longest string is sought up to this many
-#: characters beyond the shortest valid length.
-UNBOUNDED_SPAN = 64
 
 #: How many transitions the transition cover looks ahead for one not yet taken.
 LOOKAHEAD = 3
