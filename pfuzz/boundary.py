@@ -58,10 +58,13 @@ been seen) or becomes empty. The other cases are built from shortest prefixes
 and completions and are not cut by the bound.
 
 Cost: see ``pfuzz.paths`` for the paths; the cases add O(transitions ×
-ranges) and the output itself, O(cases × case length). Measured: under 10 ms
-for realistic validator patterns of 20-260 states; about 3 s for the
-password-policy profile (5,584 states, 30,605 transitions, about 12,000
-cover strings). The empty language gives an empty suite.
+ranges) and the output itself, O(cases × case length). Measured (one core):
+1-5 ms for realistic validator patterns of 15-260 states; about 40 ms for
+the password-policy fields (513 and 968 states, up to 2,767 transitions,
+about 600-740 cover strings); 70 ms for ``(a|b)*a(a|b){10}`` (2,048 states);
+90 ms for ``\\w{3,30}`` over the unicode universe, where ``\\w`` has some 640
+ranges and so gives about 2,600 range-edge cases. The empty language gives
+an empty suite.
 """
 
 from __future__ import annotations
