@@ -56,7 +56,7 @@ def pattern_of(dfa: DFA, limit: int | None = None) -> str | None:
         return None  # every state but the start has an incoming edge: over budget already
     algebra = Algebra(dfa.universe, work_limit=max(limit, 64) * WORK_FACTOR, budget=WORK_BUDGET)
     try:
-        text = eliminate(dfa, algebra).text
+        text = algebra.polish(eliminate(dfa, algebra)).text
     except TooLarge:
         return None
     return text if len(text) <= limit else None

@@ -46,10 +46,11 @@ class TooLarge(Exception):
 class Expr:
     """An expression node; two nodes are equal when they render the same text."""
 
-    __slots__ = ("text", "prec", "nullable")
+    __slots__ = ("text", "prec", "nullable", "lead")
 
-    def __init__(self, text: str, prec: int, nullable: bool):
+    def __init__(self, text: str, prec: int, nullable: bool, lead: int = -1):
         self.text, self.prec, self.nullable = text, prec, nullable
+        self.lead = lead  # smallest code point the expression's first item can read (a sort key)
 
     def __eq__(self, other) -> bool:
         return isinstance(other, Expr) and self.text == other.text
@@ -73,7 +74,7 @@ class Sym(Expr):
     __slots__ = ("chars",)
 
     def __init__(self, chars: CharSet, text: str):
-        super().__init__(text, ATOM, False)
+        super().__init__(text, ATOM, False, chars.min)
         self.chars = chars
 
 
@@ -82,7 +83,7 @@ class Cat(Expr):
 
     def __init__(self, parts: tuple[Expr, ...]):
         super().__init__("".join(_wrap(p, CAT) for p in parts), CAT,
-                         all(p.nullable for p in parts))
+                         all(p.nullable for p in parts), parts[0].lead)
         self.parts = parts
 
 
@@ -90,7 +91,8 @@ class Alt(Expr):
     __slots__ = ("options",)
 
     def __init__(self, options: tuple[Expr, ...]):
-        super().__init__("|".join(o.text for o in options), ALT, any(o.nullable for o in options))
+        super().__init__("|".join(o.text for o in options), ALT, any(o.nullable for o in options),
+                         min(o.lead for o in options))
         self.options = options
 
 
@@ -99,7 +101,7 @@ class Rep(Expr):
 
     def __init__(self, base: Expr, lo: int, hi: int | None):
         text, prec = _render_rep(base, lo, hi)
-        super().__init__(text, prec, lo == 0 or base.nullable)
+        super().__init__(text, prec, lo == 0 or base.nullable, base.lead)
         self.base, self.lo, self.hi = base, lo, hi
 
 
@@ -225,6 +227,9 @@ class Algebra:
         return self._alts[key]
 
     def _alt(self, flat: list[Expr]) -> Expr:
+        optional = [o for o in flat if isinstance(o, Rep) and (o.lo, o.hi) == (0, 1)]
+        if optional:  # x? is ε|x: let x merge and factor with the other options
+            flat = [o for o in flat if o not in optional] + [EMPTY] + [o.base for o in optional]
         has_empty = any(isinstance(o, Empty) for o in flat)
         chars = [o.chars for o in flat if isinstance(o, Sym)]
         rest = [o for o in flat if not isinstance(o, (Empty, Nothing, Sym))]
@@ -232,10 +237,25 @@ class Algebra:
             rest.append(self.sym(CharSet.of(r for c in chars for r in c.ranges)))
         rest = self._merge_counts(rest)
         rest = self._factor(self._factor(rest, first=True), first=False)
-        rest = sorted(set(rest), key=lambda e: e.text)
+        rest = sorted(set(rest), key=lambda e: (e.lead, e.text))
         if has_empty and not any(o.nullable for o in rest):
             return self.rep(self._alt_node(rest), 0, 1) if rest else EMPTY
         return self._alt_node(rest)
+
+    # -- a final pass ------------------------------------------------------------
+    def polish(self, expr: Expr) -> Expr:
+        """Rewrite repeated blocks of a concatenation as counts: X.X.X.X → (?:X.){3}X.
+
+        Costly (quadratic in the items of each concatenation), so it runs once,
+        on the finished expression, not on every intermediate label.
+        """
+        if isinstance(expr, Cat):
+            return self.cat(*_blocks([self.polish(p) for p in expr.parts], self))
+        if isinstance(expr, Alt):
+            return self.alt(*(self.polish(o) for o in expr.options))
+        if isinstance(expr, Rep):
+            return self.rep(self.polish(expr.base), expr.lo, expr.hi)
+        return expr
 
     def _alt_node(self, options: list[Expr]) -> Expr:
         if not options:
@@ -291,6 +311,30 @@ class Algebra:
             rest = (less, *rest) if first else (*rest, less)
             end = end.base
         return end, rest
+
+
+def _blocks(items: list[Expr], algebra: "Algebra") -> list[Expr]:
+    """Greedily replace k ≥ 2 adjacent copies of a block of items by block{k} where that is shorter."""
+    out: list[Expr] = []
+    i = 0
+    while i < len(items):
+        best = (0, 1, 1)  # (characters saved, block length, copies)
+        for size in range(2, (len(items) - i) // 2 + 1):
+            block = items[i:i + size]
+            copies = 1
+            while items[i + copies * size:i + (copies + 1) * size] == block:
+                copies += 1
+            width = sum(len(e.text) for e in block)
+            saved = (copies - 1) * width - len(f"(?:){{{copies}}}")
+            if copies > 1 and saved > best[0]:
+                best = (saved, size, copies)
+        _, size, copies = best
+        if copies > 1:
+            out.append(algebra.rep(algebra.cat(*items[i:i + size]), copies, copies))
+        else:
+            out.append(items[i])
+        i += size * copies
+    return out
 
 
 # -- class texts ------------------------------------------------------------------

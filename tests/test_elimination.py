@@ -204,3 +204,15 @@ def test_large_automata_give_up_quickly():
     started = time.perf_counter()
     assert lang.to_pattern() is None
     assert time.perf_counter() - started < 5
+
+
+def test_repeated_blocks_and_option_order_read_well():
+    pytest.importorskip("pfuzz.syntax")
+    import pfuzz
+
+    assert pfuzz.compile("([0-9a-f]{2}:){5}[0-9a-f]{2}").to_pattern() == "(?:[0-9a-f]{2}:){5}[0-9a-f]{2}"
+    day = pfuzz.compile("(0[1-9]|[12][0-9]|3[01])").to_pattern()
+    assert day == "0[1-9]|[12][0-9]|3[01]"  # options in order of their first character
+    octet = r"(25[0-5]|2[0-4]\d|1\d\d|[1-9]?\d)"
+    written = pfuzz.compile(rf"{octet}(\.{octet}){{3}}").to_pattern()
+    assert written.startswith("(?:(?:") and written.count(r"\.") == 1 and "{3}" in written
