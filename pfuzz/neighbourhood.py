@@ -214,6 +214,7 @@ class _Neighbourhood:
             self.insert_mask = [(1 << n) - 1] * k
             self.beaten = dominators(dfa)
         self.cuts: dict[int, int] = {}
+        self.no_pending = (0,) * distance
 
     def _edge_relations(self, dfa: DFA) -> None:
         """Refine the classes by the edge characters; relations for writing only edges."""
@@ -254,29 +255,30 @@ class _Neighbourhood:
         return (1, *map(self.cut, levels[1:]), -1, *([0] * self.d))
 
     def step(self, config: tuple, c: int):
-        d = self.d
+        d, match, anywhere = self.d, self.match, self.anywhere
         b = self.base[c]
-        pending_class = config[d + 1]
-        new: list[int] = []
-        for e in range(d + 1):
-            v = self.match(b, config[e])
-            if e:
-                prev, below = config[e - 1], new[e - 1]
-                v |= below
-                if self.replace:
-                    v |= self.written(c, prev)
-                if self.insert:
-                    v |= prev & self.insert_mask[c]
-                if pending_class >= 0:
-                    v |= self.match(pending_class, self.match(b, config[d + 1 + e]))
-                if self.delete:
-                    v |= self.anywhere(0, below)
+        swapped = config[d + 1]  # class read before, when a swap is pending
+        below = match(b, config[0])
+        new = [below]
+        for e in range(1, d + 1):
+            prev = config[e - 1]
+            v = match(b, config[e]) | below
+            if self.replace:
+                v |= self.written(c, prev)
+            if self.insert:
+                v |= prev & self.insert_mask[c]
+            if swapped >= 0:
+                v |= match(swapped, match(b, config[d + 1 + e]))
+            if self.delete:
+                v |= anywhere(0, below)
             new.append(v)
-        pending = config[:d] if self.swap and any(config[:d]) else (0,) * d
-        marker = b if any(pending) else -1
-        if not new[d] and marker < 0:
-            return None
-        return (new[0], *map(self.cut, new[1:]), marker, *pending)
+            below = v
+        pending = config[:d] if self.swap and any(config[:d]) else None
+        if pending is None:
+            if not below:
+                return None
+            return (new[0], *map(self.cut, new[1:]), -1, *self.no_pending)
+        return (new[0], *map(self.cut, new[1:]), b, *pending)
 
     def is_accepting(self, config: tuple) -> bool:
         return bool(config[self.d] & self.final) and not config[0] & self.final
