@@ -65,6 +65,7 @@ CHUNK = 1 << 14
 CHAR_TABLE_LIMIT = 1 << 20
 
 _UNIT = 2.0 ** -53
+_LEVEL_BLOCK = 256  # levels per block when building alias tables
 _NONE = -(1 << 40)  # exponent of a zero count
 
 
@@ -151,25 +152,30 @@ class FloatTables:
 
     def _alias_tables(self, q):
         """Limits and aliases per (level, slot): slot j of a state with threshold p has
-        limit j + p, so a draw x·k keeps slot ⌊x·k⌋ when x·k < limit; an alias is a slot index."""
+        limit j + p, so a draw x·k keeps slot ⌊x·k⌋ when x·k < limit; an alias is a slot index.
+        Built a block of levels at a time, so temporaries stay small beside the result."""
         levels = q.shape[0]
-        prob = np.zeros((levels, self.n_slots))
+        limit = np.zeros((levels, self.n_slots))
         alias = np.broadcast_to(np.arange(self.n_slots, dtype=np.int32),
                                 (levels, self.n_slots)).copy()
+        for first in range(0, levels, _LEVEL_BLOCK):
+            block = slice(first, min(first + _LEVEL_BLOCK, levels))
+            self._alias_block(q[block], limit[block], alias[block])
+        limit += np.arange(self.n_slots) - np.repeat(self.base, self.fanout + 1)
+        return limit, alias
+
+    def _alias_block(self, q, prob, alias) -> None:
+        levels = q.shape[0]
         for k in np.unique(self.fanout).tolist():
             if k == 0:
                 continue
             states = np.flatnonzero(self.fanout == k)
             cols = self.base[states][:, None] + np.arange(k)
-            edges = cols - states[:, None]
-            p, a = robin_hood(q[:, edges].reshape(-1, k) * k)
+            rows = q[:, cols - states[:, None]]
+            p, a = robin_hood(rows.reshape(-1, k) * k)
             prob[:, cols] = p.reshape(levels, len(states), k)
-            local = a.reshape(levels, len(states), k)
-            alias[:, cols] = local + self.base[states][None, :, None]
-            heaviest = q[:, edges].argmax(axis=2) + self.base[states][None, :]
-            alias[:, self.base[states] + k] = heaviest
-        local = np.arange(self.n_slots) - np.repeat(self.base, self.fanout + 1)
-        return prob + local, alias
+            alias[:, cols] = a.reshape(levels, len(states), k) + self.base[states][None, :, None]
+            alias[:, self.base[states] + k] = rows.argmax(axis=2) + self.base[states][None, :]
 
     # -- questions --------------------------------------------------------------------
     def has_strings(self, length: int) -> bool:
