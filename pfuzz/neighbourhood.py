@@ -52,7 +52,7 @@ classes are refined so that each edge character is a class of its own.
 
 Cost: configurations are tuples of 2d + 2 bitsets; a step costs O(d) set
 images and cuts, memoised per (class, set). Before minimisation the
-automaton has one state per distinct configuration, in practice 1.5 to 4
+automaton has one state per distinct configuration, in practice 1.3 to 4.5
 times the minimal near-miss DFA. Exponential blow-up is possible in
 principle (bounded repeats on both sides of overlapping separators come
 close: a bounded e-mail pattern has a 9,500-state minimal near-miss DFA at
