@@ -17,9 +17,8 @@ string, in order.
   short or unreadable answer is a ``TargetError``, never a silent verdict.
 - ``RegexTarget(pattern, mode)`` calls Python's ``re`` in the mode the user's
   code uses (``fullmatch``, ``match`` or ``search``) and also offers the exact
-  language of that call, compiled from ``call_pattern``: R as is for
-  ``fullmatch``, ``(?:R)(?s:.*)`` for ``match``, ``(?s:.*)(?:R)(?s:.*)`` for
-  ``search`` (which keeps the meaning of anchors inside R, unlike L(R)·U*).
+  language of that call, compiled by ``pfuzz.compile(..., mode=...)``, which
+  keeps the meaning of anchors inside R (unlike the language L(R)·U*).
 """
 
 from __future__ import annotations
@@ -201,31 +200,11 @@ class RegexTarget:
         return [Verdict(self._call(text) is not None) for text in texts]
 
     def language(self, universe):
-        """The exact language this call accepts over ``universe`` (a PatternError if not regular)."""
+        """The exact language this call accepts over ``universe`` (a PatternError if not regular).
+
+        The compiler models the call mode itself (``re.match`` is the full match
+        of ``R(?s:.*)``, so ``R$`` keeps its meaning), which L(R)·U* would not.
+        """
         from .language import compile as compile_pattern
 
-        return compile_pattern(call_pattern(self.pattern, self.mode), universe)
-
-
-_GLOBAL_FLAGS = re.compile(r"(?:\(\?[aiLmsux]+\))+")
-
-
-def call_pattern(pattern: str, mode: str) -> str:
-    """A pattern whose ``fullmatch`` accepts exactly what ``re.<mode>(pattern, s)`` accepts.
-
-    ``match`` succeeds when the pattern matches some prefix of s *in the
-    context of all of s* (so ``$`` still looks at the real end): that is the
-    full match of ``(?:R)(?s:.*)``, not the language L(R)·U*, which would
-    let ``R$`` accept anything after a match. ``search`` is likewise
-    ``(?s:.*)(?:R)(?s:.*)``, where a ``^`` inside R can still only hold at the
-    start. Global inline flags such as ``(?i)`` must stay in front, and a
-    verbose pattern may end in a comment, so the group is closed on a new line.
-    """
-    if mode == "fullmatch":
-        return pattern
-    lead = _GLOBAL_FLAGS.match(pattern)
-    flags = lead.group(0) if lead else ""
-    body = pattern[len(flags):]
-    close = "\n)" if "x" in flags else ")"
-    inner = f"(?:{body}{close}"
-    return f"{flags}{inner}(?s:.*)" if mode == "match" else f"{flags}(?s:.*){inner}(?s:.*)"
+        return compile_pattern(self.pattern, universe, mode=self.mode)
