@@ -13,6 +13,7 @@ import re
 import time
 
 import pytest
+from hypothesis import given, settings, strategies as st
 
 import pfuzz
 from pfuzz import boundary
@@ -293,3 +294,33 @@ def test_cost_on_a_large_automaton():
     elapsed = time.perf_counter() - start
     assert elapsed < 0.1 * 3, elapsed  # target 100 ms; 3x margin for loaded CI machines
     assert cases
+
+
+# -- random small patterns (Hypothesis) against re.fullmatch ------------------------------
+
+ATOMS = ["a", "b", "[ab]", "[^a]", ".", "[a-c]", "c"]
+
+
+@st.composite
+def small_patterns(draw, depth=2):
+    if depth == 0 or draw(st.booleans()):
+        return draw(st.sampled_from(ATOMS))
+    kind = draw(st.sampled_from(["seq", "alt", "repeat"]))
+    inner = small_patterns(depth - 1)
+    if kind == "seq":
+        return "".join(draw(st.lists(inner, min_size=2, max_size=3)))
+    if kind == "alt":
+        return "(" + "|".join(draw(st.lists(inner, min_size=2, max_size=3))) + ")"
+    return "(" + draw(inner) + ")" + draw(st.sampled_from(["*", "+", "?", "{2}", "{1,3}", "{0,2}"]))
+
+
+@settings(max_examples=150, deadline=None, database=None)
+@given(small_patterns())
+def test_random_patterns_agree_with_re_and_are_covered(pattern):
+    lang = pfuzz.compile(pattern, universe="[a-d]")
+    cases = suite(lang.dfa)
+    for case in cases:
+        assert case.expected == (re.fullmatch(pattern, case.text) is not None), (pattern, case)
+    if not lang.is_empty():
+        assert_covers(lang.dfa)
+        assert cases[0].text == lang.shortest()
