@@ -3,7 +3,7 @@
 States are drawn as circles (accepting states as double circles), with an
 arrow into the start state from a point; the dead state is left out. All the
 symbol classes leading from one state to the same next state are merged into
-one edge, labelled with the shortest ``re`` class text for their union over
+one edge (``pfuzz.boundary.transitions``), labelled with the shortest ``re`` class text for their union over
 the universe (``pfuzz.expression.class_text``: ``[0-9]``, ``[^,]``, ``.``).
 DOT is the Graphviz language (graphviz.org/doc/info/lang.html); SVG needs the
 Graphviz ``dot`` program on the PATH, run as a subprocess.
@@ -16,7 +16,7 @@ from __future__ import annotations
 import shutil
 import subprocess
 
-from .charset import CharSet
+from .boundary import transitions
 from .dfa import DFA
 from .errors import PfuzzError
 from .expression import class_text
@@ -31,19 +31,6 @@ INSTALL_HINT = ("install Graphviz to get SVG: 'apt-get install graphviz' (Debian
 
 class GraphvizError(PfuzzError):
     """The ``dot`` program is missing or failed."""
-
-
-def edges(dfa: DFA) -> list[tuple[int, CharSet, int]]:
-    """(state, label, next state) for every live transition, parallel classes merged."""
-    live = dfa.live_states()
-    out = []
-    for s in range(dfa.n_states):
-        targets: dict[int, list] = {}
-        for c, t in enumerate(dfa.table[s]):
-            if t >= 0 and t in live:
-                targets.setdefault(t, []).extend(dfa.classes[c].ranges)
-        out.extend((s, CharSet.of(ranges), t) for t, ranges in targets.items())
-    return out
 
 
 def _quoted(text: str) -> str:
@@ -61,7 +48,7 @@ def to_dot(dfa: DFA, title: str | None = None) -> str:
     for s in range(dfa.n_states):
         shape = ", shape=doublecircle" if s in dfa.accepting else ""
         lines.append(f'  s{s} [label="{s}"{shape}];')
-    for s, label, t in edges(dfa):
+    for s, label, t in transitions(dfa):
         lines.append(f"  s{s} -> s{t} [label={_quoted(class_text(label, dfa.universe))}];")
     lines.append("}")
     return "\n".join(lines) + "\n"

@@ -27,7 +27,7 @@ from __future__ import annotations
 
 import heapq
 
-from .charset import CharSet
+from .boundary import transitions
 from .dfa import DFA
 from .expression import EMPTY, NODE_CHARGE, NOTHING, NOTHING_TEXT, Algebra, Expr, TooLarge
 
@@ -72,20 +72,16 @@ class _Graph:
     START, FINAL = -1, -2
 
     def __init__(self, dfa: DFA, algebra: Algebra):
-        live = dfa.live_states()
-        self.succ: dict[int, dict[int, Expr]] = {s: {} for s in (*live, self.START, self.FINAL)}
+        edges = transitions(dfa)
+        states = {s for s, _, _ in edges} | {t for _, _, t in edges} | ({0} & dfa.live_states())
+        self.succ: dict[int, dict[int, Expr]] = {s: {} for s in (*states, self.START, self.FINAL)}
         self.pred: dict[int, dict[int, Expr]] = {s: {} for s in self.succ}
         self.size = dict.fromkeys(self.succ, 0)
-        for s in live:
-            targets: dict[int, list] = {}
-            for c, t in enumerate(dfa.table[s]):
-                if t in live:
-                    targets.setdefault(t, []).extend(dfa.classes[c].ranges)
-            for t, ranges in targets.items():
-                self.put(s, t, algebra.charge(algebra.sym(CharSet.of(ranges))))
-            if s in dfa.accepting:
-                self.put(s, self.FINAL, EMPTY)
-        if 0 in live:
+        for s, label, t in edges:
+            self.put(s, t, algebra.charge(algebra.sym(label)))
+        for s in states & dfa.accepting:
+            self.put(s, self.FINAL, EMPTY)
+        if states:
             self.put(self.START, 0, EMPTY)
 
     def put(self, p: int, q: int, label: Expr) -> None:
