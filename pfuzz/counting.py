@@ -42,6 +42,7 @@ from typing import Iterator
 
 from . import dfa as automata
 from .dfa import DFA
+from .errors import NotInLanguageError, RankOutOfRangeError
 
 #: For a language without a longest string, the default ``max_length`` is
 #: this many characters above the shortest length considered.
@@ -121,7 +122,7 @@ class Counter:
     def rank(self, text: str) -> int:
         """Position of ``text`` among the accepted strings of its length, in code-point order."""
         if self.count(len(text)) == 0:
-            raise ValueError(f"{text!r} is not in the language (no strings of its length)")
+            raise NotInLanguageError(f"{text!r} is not in the language (no strings of its length)")
         state, index = 0, 0
         for depth, char in enumerate(text):
             below = self._table(len(text) - depth - 1)
@@ -129,18 +130,18 @@ class Counter:
             point = ord(char)
             j = bisect.bisect_right(pieces.los, point) - 1
             if j < 0 or point > pieces.his[j] or not below[pieces.targets[j]]:
-                raise ValueError(f"{text!r} is not in the language")
+                raise NotInLanguageError(f"{text!r} is not in the language")
             index += pieces.before_weight(j, below) + (point - pieces.los[j]) * below[pieces.targets[j]]
             state = pieces.targets[j]
         if state not in self.dfa.accepting:
-            raise ValueError(f"{text!r} is not in the language")
+            raise NotInLanguageError(f"{text!r} is not in the language")
         return index
 
     def unrank(self, length: int, index: int) -> str:
         """The accepted string of ``length`` with rank ``index`` (inverse of ``rank``)."""
         size = self.count(length)
         if not 0 <= index < size:
-            raise IndexError(f"index {index} out of range: length {length} has {size} strings")
+            raise RankOutOfRangeError(f"index {index} out of range: length {length} has {size} strings")
         return "".join(chr(p) for _, _, p in self._descend(length, index))
 
     def _descend(self, length: int, index: int) -> list[tuple[int, int, int]]:

@@ -45,5 +45,13 @@ class EmptyLanguageError(PfuzzError, ValueError):
     """Sampling or explaining was asked of a language with no strings."""
 
 
+class NotInLanguageError(PfuzzError, ValueError):
+    """A string was given to ``rank`` that the language does not accept."""
+
+
+class RankOutOfRangeError(PfuzzError, IndexError):
+    """``unrank`` was asked for an index past the number of strings of that length."""
+
+
 class PfuzzWarning(UserWarning):
     """Something worth saying that is not an error (e.g. fewer distinct strings than asked)."""

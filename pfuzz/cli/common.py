@@ -128,4 +128,5 @@ def escape_text(text: str) -> str:
 
 
 def needs_escape(text: str) -> bool:
-    return escape_text(text) != text
+    """True when ``escape_text`` would change ``text``."""
+    return not text.isprintable() or "\\" in text
