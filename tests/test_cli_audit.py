@@ -131,3 +131,10 @@ def test_report_to_a_file(tmp_path):
                  "--out", str(target))
     assert result.exit_code == 0
     assert json.loads(target.read_text())["agrees"] is True
+
+
+def test_specification_from_a_pattern_file(tmp_path):
+    spec = tmp_path / "ticket.txt"
+    spec.write_text(TICKET + "\n")
+    result = run("--pattern-file", str(spec), "--target", "tickets:correct")
+    assert result.exit_code == 0 and f"specification: {TICKET} " in result.output

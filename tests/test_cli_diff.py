@@ -70,3 +70,17 @@ def test_ignore_case_and_out_file(tmp_path):
     result = run("--ignore-case", "--format", "json", "--out", str(target), "[a-f]{2}", "[A-Fa-f]{2}")
     assert result.exit_code == 0
     assert json.loads(target.read_text())["equal"] is True
+
+
+def test_patterns_from_files(tmp_path):
+    spec = tmp_path / "spec.txt"
+    spec.write_text("[a-c]{2}\n")
+    implementation = tmp_path / "implementation.txt"
+    implementation.write_text("[a-d]{2}\n")
+    result = run("[a-c]{2}", "--pattern-file", str(implementation))
+    assert result.exit_code == 1 and "B: [a-d]{2}\n" in result.output
+    both = run("--pattern-file", str(spec), "--pattern-file", str(spec))
+    assert both.exit_code == 0
+    assert run("[a-c]").exit_code == 2
+    missing = run("[a-c]", "--pattern-file", str(tmp_path / "nope.txt"))
+    assert missing.exit_code == 2 and "cannot read pattern file" in missing.output

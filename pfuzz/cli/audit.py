@@ -14,7 +14,7 @@ from ..targets import DEFAULT_TIMEOUT, MODES, CommandTarget, PythonTarget, Regex
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
                      language_options, max_length_option, min_length_option, out_option,
                      report_errors, seed_option)
-from .diff import comparison_dict, comparison_lines, quote
+from .diff import comparison_dict, comparison_lines, quote, read_pattern_file
 
 #: Failures listed per category in the text report (JSON lists them all).
 DEFAULT_SHOW = 10
@@ -122,8 +122,7 @@ def _specification(profile, pattern, pattern_file, field, universe, flags, state
         if field is not None:
             fail("--field applies to a PROFILE, not to --pattern")
         if pattern_file is not None:
-            text = pattern_file.read_text(encoding="utf-8")
-            pattern = text[:-1] if text.endswith("\n") else text
+            pattern = read_pattern_file(pattern_file)
         return compile_language(pattern, universe, flags, state_cap), pattern, 1, EDIT_KINDS
     ctx = click.get_current_context()
     for name in ("universe", "ignore_case"):

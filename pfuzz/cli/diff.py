@@ -5,17 +5,21 @@ from __future__ import annotations
 import json
 import sys
 
+from pathlib import Path
+
 import click
 
 from ..comparison import DEFAULT_EXAMPLES, Comparison, Side, compare
-from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, escape_text,
+from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, escape_text, fail,
                      format_option, language_options, max_length_option, out_option,
                      report_errors)
 
 
 @click.command("diff")
-@click.argument("pattern_a", metavar="PATTERN_A")
-@click.argument("pattern_b", metavar="PATTERN_B")
+@click.argument("patterns", metavar="PATTERN_A PATTERN_B", nargs=-1)
+@click.option("--pattern-file", "pattern_files", multiple=True,
+              type=click.Path(dir_okay=False, path_type=Path),
+              help="Read a pattern from FILE instead (give it once for B, twice for A and B).")
 @language_options
 @max_length_option
 @click.option("--examples", type=click.IntRange(min=0), default=DEFAULT_EXAMPLES,
@@ -23,7 +27,7 @@ from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, escape_tex
 @format_option(("text", "json"), "text")
 @out_option
 @report_errors
-def diff(pattern_a, pattern_b, universe, flags, state_cap, max_length, examples, fmt, out):
+def diff(patterns, pattern_files, universe, flags, state_cap, max_length, examples, fmt, out):
     """Compare the languages of PATTERN_A and PATTERN_B exactly.
 
     Prints whether they are equal and, for each of A−B (only in A) and B−A
@@ -32,9 +36,11 @@ def diff(pattern_a, pattern_b, universe, flags, state_cap, max_length, examples,
     status: 0 equal, 1 different, 2 bad input.
 
     \b
-    Example (a specification against an implementation):
+    Examples (a specification against an implementation):
       pfuzz diff '(0[1-9]|1[0-2])/[0-9]{2}' '[01][0-9]/[0-9]{2}'
+      pfuzz diff '[A-Z]{2}-[0-9]{4}' --pattern-file implementation.txt
     """
+    pattern_a, pattern_b = _two_patterns(patterns, pattern_files)
     a = compile_language(pattern_a, universe, flags, state_cap)
     b = compile_language(pattern_b, universe, flags, state_cap)
     result = compare(a, b, max_length=max_length, examples=examples)
@@ -47,6 +53,13 @@ def diff(pattern_a, pattern_b, universe, flags, state_cap, max_length, examples,
                  *comparison_lines(result)]
         emit("\n".join(lines) + "\n", out)
     sys.exit(EXIT_OK if result.equal else EXIT_DIFFERENT)
+
+
+def _two_patterns(patterns: tuple[str, ...], files: tuple[Path, ...]) -> tuple[str, str]:
+    """PATTERN_A and PATTERN_B from arguments first, then from --pattern-file FILEs."""
+    if len(patterns) + len(files) != 2:
+        fail("give two patterns: PATTERN_A PATTERN_B, or --pattern-file FILE for either of them")
+    return (*patterns, *(read_pattern_file(f) for f in files))
 
 
 def comparison_dict(result: Comparison) -> dict:
@@ -95,6 +108,15 @@ def pattern_label(side: Side) -> str:
     if side.pattern is None:
         return f"({side.note})"
     return side.pattern if side.pattern else '(the empty pattern: only "")'
+
+
+def read_pattern_file(path: Path) -> str:
+    """A pattern from a file (one pattern; a final newline is dropped)."""
+    try:
+        text = path.read_text(encoding="utf-8")
+    except OSError as error:
+        fail(f"cannot read pattern file {str(path)!r}: {error.strerror}")
+    return text[:-1] if text.endswith("\n") else text
 
 
 def quote(text: str) -> str:
