@@ -32,8 +32,11 @@ column), so changing one field's counts leaves every other field's strings as
 they were. Same profile, seed and versions → byte-identical files (no
 timestamps, sorted keys, shortlex-sorted field files).
 
-Cost: dominated by sampling and by explaining rejects (see those modules);
-everything is held in memory until written, about 1 KB per case.
+Cost: dominated by sampling and by explaining rejects (see those modules).
+A field's strings are written as soon as they are made and then let go; the
+rows of cases.csv stay in memory to the end. Peak memory is about 1 KB per
+case of the largest field plus about 0.3 KB per case overall (measured by
+``benchmarks/corpus.py``).
 """
 
 from __future__ import annotations
@@ -56,8 +59,18 @@ from .randomness import RandomSource
 CASE_COLUMNS = ("case_id", "field", "value", "expected", "category", "reason", "witness",
                 "edits", "file")
 ACCEPT, REJECT = "accept", "reject"
+PARTS = ("valid", "rejects", "boundary")     #: the three files of a field, in this order
 #: Rounds of extra draws when repeats leave a reject list short (then it stays short).
 TOP_UP_ROUNDS = 8
+
+
+@dataclass(frozen=True)
+class FieldPlan:
+    """What record rows need of a field once its own files are written."""
+
+    field: Field
+    window: tuple[int, int]
+    has_near_misses: bool
 
 
 @dataclass
@@ -74,6 +87,9 @@ class FieldCases:
     boundary: list
     has_near_misses: bool
 
+    def plan(self) -> FieldPlan:
+        return FieldPlan(self.field, self.window, self.has_near_misses)
+
 
 @dataclass
 class CorpusSummary:
@@ -88,7 +104,7 @@ class CorpusSummary:
 
 
 def step_count(profile: Profile) -> int:
-    """Progress steps ``write_corpus`` reports: three per field, one for the record, one to write."""
+    """Steps ``write_corpus`` reports: three per field, one for the record, one to write."""
     return 3 * len(profile.fields) + (1 if profile.record else 0) + 1
 
 
@@ -109,14 +125,18 @@ def write_corpus(profile: "Profile | str | Path", out_dir: "str | Path", seed: i
     replace = check_target(out_dir, force)
     tick = progress or (lambda label: None)
     seeds = _child_seeds(profile, seed)
-    made = [_field_cases(f, seeds[f.name], tick) for f in profile.fields]
-    tables = None
-    if profile.record:
-        tables = record_tables(profile.record, {m.field.name: m for m in made},
-                               seeds["record"])
-        tick(f"record {profile.record.name}")
     with Staging(out_dir, replace=replace) as staging:
-        summary = _write_all(staging, profile, seed, made, tables)
+        writer = _Writer(staging, profile, seed)
+        plans = {}
+        for field in profile.fields:
+            made = _field_cases(field, seeds[field.name], tick)
+            writer.add_field(made)
+            plans[field.name] = made.plan()
+            del made                        # its strings are written: let them go
+        if profile.record:
+            writer.add_record(record_tables(profile.record, plans, seeds["record"]))
+            tick(f"record {profile.record.name}")
+        summary = writer.finish()
         staging.commit()
     tick("written")
     return summary
@@ -195,7 +215,8 @@ def _field_files(made: FieldCases):
     valid_rows = [{"id": i, "length": len(t), "text": t} for i, t in zip(valid_ids, made.valid)]
     reason = ("every valid string of the length window" if made.valid_mode == "all"
               else "drawn uniformly by length")
-    valid_cases = [(i, name, t, ACCEPT, "valid", reason, "", "", f"{base}/valid.jsonl")
+    valid_file, rejects_file, boundary_file = (f"{base}/{part}.jsonl" for part in PARTS)
+    valid_cases = [(i, name, t, ACCEPT, "valid", reason, "", "", valid_file)
                    for i, t in zip(valid_ids, made.valid)]
     reject_ids = case_ids(f"{name}:reject", len(made.rejects))
     reject_rows, reject_cases = [], []
@@ -203,40 +224,51 @@ def _field_files(made: FieldCases):
         script = edit_list(r)
         reject_rows.append({**r.as_dict(), "id": i, "length": len(r.text), "script": script})
         reject_cases.append((i, name, r.text, REJECT, "near-miss", reject_reason(r),
-                             r.witness, "; ".join(script), f"{base}/rejects.jsonl"))
+                             r.witness, "; ".join(script), rejects_file))
     boundary_ids = case_ids(f"{name}:boundary", len(made.boundary))
     boundary_rows = [{"id": i, "text": c.text, "expected": ACCEPT if c.expected else REJECT,
                       "category": c.category, "reason": c.reason}
                      for i, c in zip(boundary_ids, made.boundary)]
     boundary_cases = [(i, name, c.text, ACCEPT if c.expected else REJECT, c.category, c.reason,
-                       "", "", f"{base}/boundary.jsonl") for i, c in zip(boundary_ids, made.boundary)]
-    return [(f"{base}/valid.jsonl", valid_rows, valid_cases),
-            (f"{base}/rejects.jsonl", reject_rows, reject_cases),
-            (f"{base}/boundary.jsonl", boundary_rows, boundary_cases)]
+                       "", "", boundary_file) for i, c in zip(boundary_ids, made.boundary)]
+    return [(valid_file, valid_rows, valid_cases), (rejects_file, reject_rows, reject_cases),
+            (boundary_file, boundary_rows, boundary_cases)]
 
 
-def _write_all(staging: Staging, profile: Profile, seed: int, made: list[FieldCases],
-               tables: RecordTables | None) -> CorpusSummary:
-    cases: list[tuple] = []
-    summary = CorpusSummary(out_dir=staging.out_dir, seed=seed, files=staging.files)
-    for m in made:
-        for path, rows, field_cases in _field_files(m):
-            staging.write(path, jsonl_text(rows))
-            cases.extend(field_cases)
-        summary.fields[m.field.name] = {"valid": len(m.valid), "rejects": len(m.rejects),
-                                        "boundary": len(m.boundary)}
-    if tables is not None:
+class _Writer:
+    """Writes each part as it is made and keeps only the cases.csv rows and manifest facts."""
+
+    def __init__(self, staging: Staging, profile: Profile, seed: int):
+        self.staging, self.profile, self.seed = staging, profile, seed
+        self.cases: list[tuple] = []
+        self.field_facts: dict[str, dict] = {}
+        self.record_facts: dict | None = None
+        self.summary = CorpusSummary(out_dir=staging.out_dir, seed=seed, files=staging.files)
+
+    def add_field(self, made: FieldCases) -> None:
+        for path, rows, field_cases in _field_files(made):
+            self.staging.write(path, jsonl_text(rows))
+            self.cases.extend(field_cases)
+        self.summary.fields[made.field.name] = {
+            "valid": len(made.valid), "rejects": len(made.rejects), "boundary": len(made.boundary)}
+        self.field_facts[made.field.name] = _field_manifest(made)
+
+    def add_record(self, tables: RecordTables) -> None:
         for path, header, rows in tables.files():
-            staging.write(path, csv_text(header, rows))
-        cases.extend(tables.cases())
-        summary.record = {"name": tables.record.name, "valid_rows": len(tables.valid),
-                          "invalid_rows": len(tables.invalid)}
-    staging.write("cases.csv", csv_text(list(CASE_COLUMNS), cases))
-    summary.cases = len(cases)
-    manifest = _manifest(profile, seed, made, tables, staging.files)
-    staging.write(MANIFEST_NAME, json_text(manifest, indent=2, sort_keys=False) + "\n")
-    staging.write(CHECKSUMS_NAME, staging.checksums_text())
-    return summary
+            self.staging.write(path, csv_text(header, rows))
+        self.cases.extend(tables.cases())
+        self.summary.record = {"name": tables.record.name, "valid_rows": len(tables.valid),
+                               "invalid_rows": len(tables.invalid)}
+        self.record_facts = tables.manifest()
+
+    def finish(self) -> CorpusSummary:
+        self.staging.write("cases.csv", csv_text(list(CASE_COLUMNS), self.cases))
+        self.summary.cases = len(self.cases)
+        manifest = _manifest(self.profile, self.seed, self.field_facts, self.record_facts,
+                             self.staging.files)
+        self.staging.write(MANIFEST_NAME, json_text(manifest, indent=2, sort_keys=False) + "\n")
+        self.staging.write(CHECKSUMS_NAME, self.staging.checksums_text())
+        return self.summary
 
 
 # -- the manifest ----------------------------------------------------------------
@@ -268,8 +300,8 @@ def _field_manifest(m: FieldCases) -> dict:
     }
 
 
-def _manifest(profile: Profile, seed: int, made: list[FieldCases],
-              tables: RecordTables | None, files: dict[str, dict]) -> dict:
+def _manifest(profile: Profile, seed: int, fields: dict[str, dict], record: dict | None,
+              files: dict[str, dict]) -> dict:
     return {
         "format": FORMAT_TAG,
         "profile": {"file": Path(profile.path).name, "sha256": profile.sha256,
@@ -277,7 +309,7 @@ def _manifest(profile: Profile, seed: int, made: list[FieldCases],
         "seed": seed,
         "reproduce": f"pfuzz corpus {Path(profile.path).name} --out DIR --seed {seed}",
         "versions": _versions(),
-        "fields": {m.field.name: _field_manifest(m) for m in made},
-        "record": tables.manifest() if tables is not None else None,
+        "fields": fields,
+        "record": record,
         "files": dict(sorted(files.items())),
     }

@@ -113,7 +113,7 @@ def _row_json(row: dict) -> str:
 
 
 def record_tables(record: Record, made: dict, seeds: dict) -> RecordTables:
-    """Build the rows of ``record`` from the fields' languages (``made``: name → FieldCases)."""
+    """Build the rows of ``record`` from the fields' languages (``made``: name → FieldPlan)."""
     rows = record.valid_rows + record.invalid_rows
     values_source = RandomSource(seeds["values"])
     reject_source = RandomSource(seeds["rejects"])

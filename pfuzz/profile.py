@@ -23,7 +23,6 @@ once, in the ``*_KEYS`` tables and the ``DEFAULT_*`` constants.
 
 from __future__ import annotations
 
-import difflib
 import functools
 import hashlib
 import re
@@ -35,8 +34,9 @@ from pathlib import Path
 from . import records
 from .charset import DEFAULT_UNIVERSE
 from .dfa import explore, minimise
-from .errors import PatternError, PfuzzError, StateLimitError, UniverseError
+from .errors import PatternError, StateLimitError, UniverseError
 from .nearmiss import KINDS as EDIT_KINDS
+from .tomlcheck import ProfileError, TableReader, hint
 
 DEFAULT_VALID = 100          #: valid strings per field
 DEFAULT_INVALID = 100        #: near-miss rejects per field
@@ -56,19 +56,6 @@ FIELD_KEYS = ("name", "pattern", "about", "source", "universe", "flags", "min_le
               "max_length", "require", "forbid", "valid", "invalid", "distance", "edits")
 RECORD_KEYS = ("name", "columns", "valid_rows", "invalid_rows", "context")
 CONTEXT_KEYS = ("column", "provider", "locale")
-
-
-class ProfileError(PfuzzError, ValueError):
-    """A profile that cannot be used; the message names the file, the table and the key.
-
-    ``detail`` holds an extra block (a pattern with a caret) or is empty.
-    """
-
-    def __init__(self, message: str, *, path: str = "", where: str = "", key: str = "",
-                 detail: str = ""):
-        prefix = ": ".join(p for p in (path, where, f"key '{key}'" if key else "") if p)
-        super().__init__(f"{prefix}: {message}" if prefix else message)
-        self.path, self.where, self.key, self.detail = path, where, key, detail
 
 
 @dataclass(frozen=True)
@@ -213,55 +200,10 @@ def parse_profile(raw: bytes, label: str = "<profile>") -> Profile:
         fields=fields, record=record, sha256=hashlib.sha256(raw).hexdigest())
 
 
-class _Reader:
-    """Typed access to the parsed TOML with errors that say where they are."""
+class _Reader(TableReader):
+    """The profile schema, read with typed access and errors that say where they are."""
 
-    def __init__(self, label: str):
-        self.label = label
-
-    def fail(self, message: str, where: str = "", key: str = "", detail: str = "") -> None:
-        raise ProfileError(message, path=self.label, where=where, key=key, detail=detail)
-
-    def keys(self, table: dict, known: tuple[str, ...], where: str) -> None:
-        for key in table:
-            if key not in known:
-                close = difflib.get_close_matches(key, known, n=1)
-                hint = f"did you mean '{close[0]}'?" if close else f"known keys: {', '.join(known)}"
-                self.fail(f"is not known ({hint})", where, key)
-
-    def get(self, table: dict, key: str, kind: type, where: str, *, required=False, default=None):
-        if key not in table:
-            if required:
-                self.fail("is required", where, key)
-            return default
-        value = table[key]
-        if not isinstance(value, kind) or (kind is int and isinstance(value, bool)):
-            self.fail(f"must be {_KIND_NAMES[kind]}, not {_describe(value)}", where, key)
-        return value
-
-    def count(self, table: dict, key: str, where: str, default, low=0, high=MAX_COUNT):
-        value = self.get(table, key, int, where, default=default)
-        if value is not None and not low <= value <= high:
-            self.fail(f"must be between {low:,} and {high:,}, not {value:,}", where, key)
-        return value
-
-    def strings(self, table: dict, key: str, where: str) -> tuple[str, ...]:
-        values = self.get(table, key, list, where, default=[])
-        for i, item in enumerate(values):
-            if not isinstance(item, str):
-                self.fail(f"item {i + 1} must be a string, not {_describe(item)}", where, key)
-        return tuple(values)
-
-    def choices(self, table: dict, key: str, where: str, allowed: tuple[str, ...], default):
-        values = self.strings(table, key, where) if key in table else default
-        for value in values:
-            if value not in allowed:
-                close = difflib.get_close_matches(value, allowed, n=1)
-                hint = f"did you mean '{close[0]}'?" if close else f"use {', '.join(allowed)}"
-                self.fail(f"'{value}' is not one of {', '.join(allowed)} ({hint})", where, key)
-        if len(set(values)) != len(values):
-            self.fail("lists a value twice", where, key)
-        return tuple(values)
+    count_limit = MAX_COUNT
 
     def name(self, table: dict, key: str, where: str) -> str:
         value = self.get(table, key, str, where, required=True)
@@ -269,17 +211,6 @@ class _Reader:
             self.fail(f"'{value}' must be lower-case letters, digits and '_', starting with a "
                       "letter", where, key)
         return value
-
-    def table(self, data: dict, key: str, where: str, required=False) -> dict:
-        return self.get(data, key, dict, where, required=required, default={})
-
-    def tables(self, data: dict, key: str, where: str) -> list[dict]:
-        items = self.get(data, key, list, where, default=[])
-        for i, item in enumerate(items):
-            if not isinstance(item, dict):
-                self.fail(f"entry {i + 1} must be a table ([[{key}]]), not {_describe(item)}",
-                          where, key)
-        return items
 
     # -- fields ----------------------------------------------------------------------
     def fields(self, data: dict) -> tuple[Field, ...]:
@@ -377,9 +308,8 @@ class _Reader:
         known = field_names + context_names
         for column in columns:
             if column not in known:
-                close = difflib.get_close_matches(column, known, n=1)
-                hint = f" (did you mean '{close[0]}'?)" if close else ""
-                self.fail(f"'{column}' is neither a [[field]] nor a context column{hint}",
+                why = hint(column, known, "known: " + ", ".join(known))
+                self.fail(f"'{column}' is neither a [[field]] nor a context column ({why})",
                           where, "columns")
             if column in RESERVED_COLUMNS:
                 self.fail(f"'{column}' is reserved for the corpus tables", where, "columns")
@@ -398,26 +328,13 @@ class _Reader:
         locale = self.get(table, "locale", str, where, default=records.DEFAULT_LOCALE)
         if provider not in records.CONTEXT_PROVIDERS:
             allowed = sorted(records.CONTEXT_PROVIDERS)
-            close = difflib.get_close_matches(provider, allowed, n=1)
-            hint = f"did you mean '{close[0]}'?" if close else "allowed: " + ", ".join(allowed)
-            self.fail(f"'{provider}' is not an allowed context provider ({hint})", where,
+            why = hint(provider, allowed, "allowed: " + ", ".join(allowed))
+            self.fail(f"'{provider}' is not an allowed context provider ({why})", where,
                       "provider")
         if locale not in records.available_locales():
-            close = difflib.get_close_matches(locale, records.available_locales(), n=1)
-            hint = f" (did you mean '{close[0]}'?)" if close else ""
-            self.fail(f"'{locale}' is not a faker locale{hint}", where, "locale")
+            why = hint(locale, records.available_locales(), "for example en_US, en_GB")
+            self.fail(f"'{locale}' is not a faker locale ({why})", where, "locale")
         if not records.supports(provider, locale):
             self.fail(f"faker's locale '{locale}' has no provider '{provider}'", where,
                       "provider")
         return ContextColumn(column=column, provider=provider, locale=locale)
-
-
-_KIND_NAMES = {str: "a string", int: "an integer", list: "a list", dict: "a table"}
-
-
-def _describe(value) -> str:
-    kinds = {bool: "a boolean", int: "an integer", float: "a number", str: "a string",
-             list: "a list", dict: "a table"}
-    shown = repr(value)
-    shown = shown if len(shown) <= 40 else shown[:37] + "..."
-    return f"{kinds.get(type(value), 'a ' + type(value).__name__)} ({shown})"
