@@ -125,13 +125,25 @@ class AuditReport:
 
     @property
     def findings(self) -> list[Finding]:
-        """Disagreements, most useful first: groups by their shortest failure, then shortlex."""
+        """Disagreements, most useful first.
+
+        Groups (categories; near-misses by edit kind) come in order of their
+        shortest failure; inside a group, the shortest failure of each kind
+        comes first, then the second shortest of each, and so on (shortlex
+        within a round), so one kind cannot crowd out the others.
+        """
         wrong = [Finding(c, v) for c, v in zip(self.cases, self.verdicts) if v.accepted != c.expected]
+        wrong.sort(key=lambda f: (len(f.case.text), f.case.text))
         first: dict[str, int] = {}
+        turn: dict[Finding, int] = {}
+        seen: dict[tuple[str, str], int] = {}
         for f in wrong:
-            first[f.case.group] = min(first.get(f.case.group, len(f.case.text)), len(f.case.text))
+            first.setdefault(f.case.group, len(f.case.text))
+            key = (f.case.group, f.case.kind)
+            turn[f] = seen.get(key, 0)
+            seen[key] = turn[f] + 1
         return sorted(wrong, key=lambda f: (first[f.case.group], _rank(f.case.category), f.case.group,
-                                            len(f.case.text), f.case.text))
+                                            turn[f], len(f.case.text), f.case.text))
 
     @property
     def agrees(self) -> bool:

@@ -188,3 +188,13 @@ def test_length_bounds_apply_to_sampled_cases():
                                                                     max_length=5))
     sampled = [c for c in cases if c.category in ("valid", "near-miss")]
     assert sampled and all(3 <= len(c.text) <= 5 for c in sampled)
+
+
+def test_each_kind_shows_its_shortest_failure_first():
+    report = run_audit(pfuzz.compile(TICKET), RegexTarget(TICKET.replace("[0-9]", r"\d") + "$", "match"),
+                       Settings(valid=50, rejects=50))
+    hostile = [f.case for f in report.findings if f.case.group == "hostile"]
+    kinds = {c.kind for c in hostile}
+    assert kinds == {"non-ascii-digit", "trailing-newline"}
+    assert {c.kind for c in hostile[:2]} == kinds
+    assert hostile[1].text == "AA-0000\n"
