@@ -91,6 +91,10 @@ def check_target(out_dir: Path, force: bool) -> bool:
         raise CorpusExistsError(f"{out_dir} exists and is not a directory; choose another --out")
     if not force:
         raise CorpusExistsError(f"{out_dir} already exists; use --force to replace it")
+    here, target = Path.cwd().resolve(), out_dir.resolve()
+    if here == target or target in here.parents:
+        raise CorpusExistsError(f"refusing to replace {out_dir}: it holds the current "
+                                "directory; run from elsewhere or choose another --out")
     if any(out_dir.iterdir()) and not _is_corpus(out_dir):
         raise CorpusExistsError(
             f"refusing to replace {out_dir}: it is not empty and holds no pfuzz "
@@ -115,14 +119,15 @@ class Staging:
 
     def __init__(self, out_dir: "str | Path", replace: bool = False):
         self.out_dir = Path(out_dir)
+        self.target = Path(os.path.abspath(out_dir))    # "." and "x/" get a real name
         self.replace = replace
         self.files: dict[str, dict] = {}
         self.temp: Path | None = None
 
     def __enter__(self) -> "Staging":
-        self.out_dir.parent.mkdir(parents=True, exist_ok=True)
-        self.temp = Path(tempfile.mkdtemp(prefix=f".{self.out_dir.name}.", suffix=".partial",
-                                          dir=self.out_dir.parent))
+        self.target.parent.mkdir(parents=True, exist_ok=True)
+        self.temp = Path(tempfile.mkdtemp(prefix=f".{self.target.name}.", suffix=".partial",
+                                          dir=self.target.parent))
         return self
 
     def __exit__(self, kind, error, trace) -> None:
@@ -143,11 +148,11 @@ class Staging:
         """Move the finished directory into place (replacing the old one if allowed)."""
         os.chmod(self.temp, 0o755)
         if not self.replace:
-            os.rename(self.temp, self.out_dir)
+            os.rename(self.temp, self.target)
             self.temp = None
             return
-        old = Path(tempfile.mkdtemp(prefix=f".{self.out_dir.name}.old-", dir=self.out_dir.parent))
-        os.rename(self.out_dir, old / "corpus")
-        os.rename(self.temp, self.out_dir)
+        old = Path(tempfile.mkdtemp(prefix=f".{self.target.name}.old-", dir=self.target.parent))
+        os.rename(self.target, old / "corpus")
+        os.rename(self.temp, self.target)
         self.temp = None
         shutil.rmtree(old, ignore_errors=True)

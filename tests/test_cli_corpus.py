@@ -3,9 +3,12 @@
 from __future__ import annotations
 
 import json
+import subprocess
+import sys
 import textwrap
 from pathlib import Path
 
+import pytest
 from click.testing import CliRunner
 
 from pfuzz.cli import main
@@ -93,3 +96,18 @@ def test_help_has_a_worked_example():
     assert result.exit_code == 0
     assert "pfuzz corpus profiles/demo.toml --out demo-corpus" in result.output
     assert "--force" in result.output and "--seed" in result.output
+
+
+def test_installed_console_script_runs_the_demo(tmp_path):
+    script = Path(sys.executable).parent / "pfuzz"
+    if not script.exists():
+        pytest.skip("the pfuzz console script is not installed beside this Python")
+    demo = Path(__file__).resolve().parent.parent / "profiles" / "demo.toml"
+    out = tmp_path / "demo-corpus"
+    done = subprocess.run([str(script), "corpus", str(demo), "--out", str(out)],
+                          capture_output=True, text=True, timeout=300)
+    assert done.returncode == 0, done.stderr
+    assert done.stdout == "" and "record member" in done.stderr
+    again = subprocess.run([str(script), "corpus", str(demo), "--out", str(out)],
+                           capture_output=True, text=True, timeout=300)
+    assert again.returncode == 2 and "Traceback" not in again.stderr

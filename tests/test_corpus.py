@@ -302,6 +302,15 @@ def test_force_replaces_an_earlier_corpus_only(tmp_path):
         write_corpus(path, tmp_path / "afile", force=True)
 
 
+def test_force_never_replaces_the_current_directory(tmp_path, monkeypatch):
+    out = tmp_path / "out"
+    write_corpus(profile_file(tmp_path), out)
+    monkeypatch.chdir(out)
+    with pytest.raises(CorpusExistsError, match="current directory"):
+        write_corpus(profile_file(tmp_path), ".", force=True)
+    assert (out / "manifest.json").exists()
+
+
 def _fail_after(monkeypatch, n: int):
     real = corpusfiles.write_atomic
     calls = []
