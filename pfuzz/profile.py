@@ -142,7 +142,10 @@ class Profile:
     sha256: str
 
     def field(self, name: str) -> Field:
-        return next(f for f in self.fields if f.name == name)
+        for f in self.fields:
+            if f.name == name:
+                return f
+        raise KeyError(f"no field named {name!r} in {self.path}")
 
 
 @functools.lru_cache(maxsize=256)

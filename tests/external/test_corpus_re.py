@@ -24,6 +24,38 @@ from pfuzz.universe import resolve_universe
 
 DEMO = Path(__file__).resolve().parents[2] / "profiles" / "demo.toml"
 
+#: Flags, length bounds, require/forbid, distance 2 and a subset of edit kinds together.
+MIXED = """
+[profile]
+title = "mixed keys"
+seed = 3
+
+[[field]]
+name = "code"
+pattern = '[a-z]{2,}[0-9]*'
+flags = ["IGNORECASE"]
+min_length = 3
+max_length = 6
+require = ['.*[0-9].*']
+forbid = ['.*(00|xx).*']
+distance = 2
+edits = ["delete", "swap"]
+valid = 40
+invalid = 40
+
+[[field]]
+name = "word"
+pattern = 'a[bc]+'
+universe = "[abc ]"
+valid = 20
+invalid = 20
+
+[record]
+name = "pair"
+valid_rows = 6
+invalid_rows = 6
+"""
+
 
 def reference(field, text: str) -> bool:
     """The verdict of Python's re (source: the ``re`` module of the standard library)."""
@@ -47,11 +79,15 @@ def apply_script(witness: str, edits: list[dict]) -> str:
     return text
 
 
-@pytest.fixture(scope="module")
-def demo(tmp_path_factory):
-    out = tmp_path_factory.mktemp("demo") / "corpus"
-    write_corpus(DEMO, out)
-    return load_profile(DEMO), out
+@pytest.fixture(scope="module", params=["demo", "mixed"])
+def demo(request, tmp_path_factory):
+    tmp = tmp_path_factory.mktemp(request.param)
+    path = DEMO
+    if request.param == "mixed":
+        path = tmp / "mixed.toml"
+        path.write_text(MIXED, encoding="utf-8")
+    write_corpus(path, tmp / "corpus")
+    return load_profile(path), tmp / "corpus"
 
 
 def test_every_field_case_gets_the_verdict_of_re(demo):
