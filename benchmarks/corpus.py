@@ -2,8 +2,9 @@
 
 Each case runs in a fresh Python process so that its peak resident set size
 (``resource.getrusage(RUSAGE_SELF).ru_maxrss``, kilobytes on Linux) belongs
-to that case alone; the figure includes the interpreter and imports (about
-70 MB here), reported on a row of its own as ``baseline``.
+to that case alone; it includes the bare interpreter, whose own figure is the
+``baseline`` row. CPU time (``time.process_time``) is the steadier figure on
+a shared machine; wall time is given beside it.
 
 The large profile has five fields of realistic validator patterns and asks
 10^5 valid strings and 10^5 near-miss rejects of each (quick mode: 10^3),
