@@ -73,7 +73,7 @@ from dataclasses import dataclass
 
 from .charset import CharSet
 from .dfa import DFA
-from .paths import UNBOUNDED_SPAN, Guide, Lengths
+from .paths import Guide, Lengths
 
 CATEGORIES = ("shortest", "longest", "length-edge", "range-edge", "coverage", "exit")
 

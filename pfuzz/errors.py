@@ -45,6 +45,10 @@ class EmptyLanguageError(PfuzzError, ValueError):
     """Sampling or explaining was asked of a language with no strings."""
 
 
+class ArgumentError(PfuzzError, ValueError):
+    """A bad argument to a library call: a negative count, an unknown edit kind, ..."""
+
+
 class NotInLanguageError(PfuzzError, ValueError):
     """A string was given to ``rank`` that the language does not accept."""
 

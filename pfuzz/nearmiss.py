@@ -36,7 +36,7 @@ from typing import Iterable, Sequence
 
 from . import randomness, witness
 from .dfa import DEFAULT_STATE_CAP, DFA
-from .errors import EmptyLanguageError, PfuzzError
+from .errors import ArgumentError, EmptyLanguageError
 from .neighbourhood import KINDS, build, edge_characters
 from .witness import Edit, Explanation, by_identity, corrector, explain
 
@@ -48,7 +48,7 @@ __all__ = ["KINDS", "Edit", "Explanation", "Reject", "edge_characters", "explain
 
 def check_distance(distance) -> int:
     if isinstance(distance, bool) or not isinstance(distance, int) or distance < 1:
-        raise PfuzzError(f"the near-miss distance must be an integer >= 1, got {distance!r}")
+        raise ArgumentError(f"the near-miss distance must be an integer >= 1, got {distance!r}")
     return distance
 
 
@@ -61,9 +61,9 @@ def check_kinds(kinds: "Iterable[str] | None") -> tuple[str, ...]:
     asked = set(kinds)
     unknown = sorted(asked - set(KINDS))
     if unknown:
-        raise PfuzzError(f"unknown edit kind {unknown[0]!r}: use {', '.join(KINDS)}")
+        raise ArgumentError(f"unknown edit kind {unknown[0]!r}: use {', '.join(KINDS)}")
     if not asked:
-        raise PfuzzError(f"give at least one edit kind ({', '.join(KINDS)})")
+        raise ArgumentError(f"give at least one edit kind ({', '.join(KINDS)})")
     return tuple(k for k in KINDS if k in asked)
 
 
@@ -175,7 +175,7 @@ def sample_rejects(dfa: DFA, n: int, *, distance: int = 1, kinds: "Sequence[str]
     of rejects finished since its last call. Same seed, same output.
     """
     if isinstance(n, bool) or not isinstance(n, int) or n < 0:
-        raise PfuzzError(f"the number of rejects must be an integer >= 0, got {n!r}")
+        raise ArgumentError(f"the number of rejects must be an integer >= 0, got {n!r}")
     distance = check_distance(distance)
     strata = [None] if kinds is None else [[k] for k in check_kinds(kinds)]
     low, high = length_range(dfa, distance, kinds, min_length, max_length, edges=edges)

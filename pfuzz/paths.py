@@ -243,7 +243,7 @@ class Lengths:
         if n == self.finite_max:
             return _longest_string(self.guide)
         reach = self._reaching(n)
-        dfa, s, chars = self.guide.dfa, 0, []
+        s, chars = 0, []
         for remaining in range(n, 0, -1):
             label, s = next((l, t) for l, t in self.guide.edges[s] if t in reach[remaining - 1])
             chars.append(chr(label.min))

@@ -17,7 +17,8 @@ from hypothesis import given, settings, strategies as st
 
 import pfuzz
 from pfuzz import boundary
-from pfuzz.boundary import UNBOUNDED_SPAN, Case, coverage, suite, transitions
+from pfuzz.boundary import coverage, suite, transitions
+from pfuzz.counting import UNBOUNDED_SPAN
 from pfuzz.charset import CharSet
 from pfuzz.dfa import explore, from_strings, minimise
 from pfuzz.paths import Guide

@@ -9,9 +9,11 @@ parse options, call the library, and print.
 from __future__ import annotations
 
 import functools
+import json
 import re
 import sys
 from pathlib import Path
+from typing import NoReturn
 
 import click
 
@@ -26,7 +28,7 @@ UNIVERSE_HELP = (f"Characters to work over: {', '.join(UNIVERSES)}, or a class s
                  f"'[a-z0-9]'. Default: {DEFAULT_UNIVERSE} (U+0020-U+007E).")
 
 
-def fail(message: str, detail: str = "") -> "NoReturn":  # noqa: F821
+def fail(message: str, detail: str = "") -> NoReturn:
     """Print one error line (and an optional detail block) and exit with status 2."""
     click.echo(f"pfuzz: error: {message}", err=True)
     if detail:
@@ -130,3 +132,38 @@ def escape_text(text: str) -> str:
 def needs_escape(text: str) -> bool:
     """True when ``escape_text`` would change ``text``."""
     return not text.isprintable() or "\\" in text
+
+
+#: A progress bar is shown from this many items on when standard error is a terminal ...
+PROGRESS_TTY_MIN = 10_000
+#: ... and from this many on in any case.
+PROGRESS_MIN = 1_000_000
+
+
+def wants_progress(n: int) -> bool:
+    """Whether a run of ``n`` items shows a progress bar on stderr."""
+    return n >= PROGRESS_MIN or (n >= PROGRESS_TTY_MIN and sys.stderr.isatty())
+
+
+def note(message: str) -> None:
+    """A remark for the user on stderr (never on stdout, which carries data)."""
+    click.echo(f"pfuzz: {message}", err=True)
+
+
+def render_strings(strings: list[str], fmt: str) -> str:
+    """Strings as ``text`` (one per line, escaped where needed, said on stderr) or ``jsonl``."""
+    if fmt == "jsonl":
+        return "".join(json.dumps(s, ensure_ascii=False) + "\n" for s in strings)
+    lines, escaped = [], 0
+    for s in strings:
+        # Same test as common.needs_escape, in C speed: printable and no backslash.
+        if s.isprintable() and "\\" not in s:
+            lines.append(s)
+        else:
+            lines.append(escape_text(s))
+            escaped += 1
+    if escaped:
+        note(f"{escaped} of {len(strings)} strings hold control characters, newlines or "
+              "backslashes and are written with Python-style escapes; "
+              "use --format jsonl to keep them exactly")
+    return "".join(line + "\n" for line in lines)

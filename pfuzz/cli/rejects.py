@@ -20,7 +20,7 @@ from ..nearmiss import KINDS, length_range, near_miss_dfa, sample_rejects
 from .common import (EXIT_DIFFERENT, compile_language, emit, escape_text, fail, format_option,
                      language_options, max_length_option, min_length_option, out_option,
                      pattern_input, report_errors, seed_option)
-from .sampling import PROGRESS_MIN, PROGRESS_TTY_MIN, _render_strings
+from .common import render_strings, wants_progress
 
 
 @click.command("reject")
@@ -68,8 +68,7 @@ def reject(pattern, universe, flags, state_cap, how_many, distance, kinds, edges
                    "change it", err=True)
     arguments = dict(distance=distance, kinds=asked, seed=seed, min_length=low,
                      max_length=high, edges=edges)
-    show = how_many >= PROGRESS_MIN or (how_many >= PROGRESS_TTY_MIN and sys.stderr.isatty())
-    if show:
+    if wants_progress(how_many):
         with click.progressbar(length=how_many, label="rejects", file=sys.stderr) as bar:
             rejects = sample_rejects(lang.dfa, how_many, progress=bar.update, **arguments)
     else:
@@ -77,7 +76,7 @@ def reject(pattern, universe, flags, state_cap, how_many, distance, kinds, edges
     if fmt == "jsonl":
         emit("".join(json.dumps(r.as_dict(), ensure_ascii=False) + "\n" for r in rejects), out)
     else:
-        emit(_render_strings([r.text for r in rejects], "text"), out)
+        emit(render_strings([r.text for r in rejects], "text"), out)
 
 
 def _text_after_pattern_file(func):

@@ -17,14 +17,9 @@ import click
 from ..counting import UNBOUNDED_SPAN
 from ..errors import PfuzzWarning
 from ..sampler import METHODS
-from .common import (compile_language, emit, escape_text, fail, format_option, language_options,
-                     max_length_option, min_length_option, out_option, pattern_input,
-                     report_errors, seed_option)
-
-#: A progress bar is shown from this many strings on when standard error is a terminal ...
-PROGRESS_TTY_MIN = 10_000
-#: ... and from this many on in any case.
-PROGRESS_MIN = 1_000_000
+from .common import (compile_language, emit, fail, format_option, language_options,
+                     max_length_option, min_length_option, note, out_option, pattern_input,
+                     render_strings, report_errors, seed_option, wants_progress)
 
 
 @contextlib.contextmanager
@@ -38,17 +33,13 @@ def _big_integers():
         sys.set_int_max_str_digits(previous)
 
 
-def _note(message: str) -> None:
-    click.echo(f"pfuzz: {message}", err=True)
-
-
 def _bounds(lang, min_length, max_length) -> tuple[int, int]:
     """The length range, with a note on stderr when an unbounded language's bound was defaulted."""
     if min_length is not None and max_length is not None and min_length > max_length:
         fail(f"--min-length {min_length} is greater than --max-length {max_length}")
     low, high = lang.counter.bounds(min_length, max_length)
     if max_length is None and not lang.is_finite():
-        _note(f"the language is unbounded: lengths up to {high} ({UNBOUNDED_SPAN} above the "
+        note(f"the language is unbounded: lengths up to {high} ({UNBOUNDED_SPAN} above the "
               "shortest considered); set --max-length to change it")
     return low, high
 
@@ -146,37 +137,19 @@ def sample(pattern, universe, flags, state_cap, how_many, seed, min_length, max_
                                         unique, method)
     for warning in caught:
         if issubclass(warning.category, PfuzzWarning):
-            _note(f"warning: {warning.message}")
-    emit(_render_strings(strings, fmt), out)
+            note(f"warning: {warning.message}")
+    emit(render_strings(strings, fmt), out)
 
 
 def _sample_with_progress(lang, n, min_length, max_length, seed, lengths, unique,
                           method) -> list[str]:
-    show = n >= PROGRESS_MIN or (n >= PROGRESS_TTY_MIN and sys.stderr.isatty())
+    show = wants_progress(n)
     arguments = dict(min_length=min_length, max_length=max_length, seed=seed, lengths=lengths,
                      unique=unique, method=method)
     if not show:
         return lang.counter.sample(n, **arguments)
     with click.progressbar(length=n, label="sampling", file=sys.stderr) as bar:
         return lang.counter.sample(n, progress=bar.update, **arguments)
-
-
-def _render_strings(strings: list[str], fmt: str) -> str:
-    if fmt == "jsonl":
-        return "".join(json.dumps(s, ensure_ascii=False) + "\n" for s in strings)
-    lines, escaped = [], 0
-    for s in strings:
-        # Same test as common.needs_escape, in C speed: printable and no backslash.
-        if s.isprintable() and "\\" not in s:
-            lines.append(s)
-        else:
-            lines.append(escape_text(s))
-            escaped += 1
-    if escaped:
-        _note(f"{escaped} of {len(strings)} strings hold control characters, newlines or "
-              "backslashes and are written with Python-style escapes; "
-              "use --format jsonl to keep them exactly")
-    return "".join(line + "\n" for line in lines)
 
 
 COMMANDS = [count, sample]
