@@ -58,8 +58,8 @@ EXACT_ROWS = 6
 @out_option
 @report_errors
 def audit(profile, pattern, pattern_file, field, python_target, command, regex, mode, universe,
-          flags, state_cap, min_length, max_length, valid, rejects, distance, reject_universe, no_boundary, no_hostile,
-          no_case_flip, timeout, seed, show, fmt, out):
+          flags, state_cap, min_length, max_length, valid, rejects, distance, reject_universe,
+          no_boundary, no_hostile, no_case_flip, timeout, seed, show, fmt, out):
     """Find the strings a validator gets wrong, against a PROFILE field or a --pattern.
 
     Cases: the whole boundary suite, hostile near-misses (a trailing newline,
