@@ -166,7 +166,7 @@ def _range_edges(guide: Guide) -> list[Case]:
     cases, done = [], set()
     for s in guide.reachable:
         prefix = guide.prefix(s)
-        where = f"at position {len(prefix) + 1}"
+        where = f"at {len(prefix)}"
         for label, t in guide.edges[s]:
             tail = guide.completion(t)
             for lo, hi in label.ranges:
@@ -216,7 +216,7 @@ def _exits(guide: Guide) -> list[Case]:
         near = CharSet.of((lo - 1, hi + 1) for lo, hi in allowed.ranges)
         bad = (rejected - near or rejected).min
         prefix, tail = guide.prefix(s), guide.completion(s)
-        where = f"at position {len(prefix) + 1}"
+        where = f"at {len(prefix)}"
         if not allowed:
             why = f"{_q(bad)} {where}, after a complete valid string that nothing may follow"
         elif not tail:

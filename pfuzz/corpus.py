@@ -21,7 +21,7 @@ N_d(L) − L (``Language.rejects``) without repeats, each with its nearest valid
 witness and edit script. Boundary suites come from ``pfuzz.boundary``.
 
 Length window: a finite field uses all its lengths; an unbounded one uses its
-shortest valid length up to that plus ``pfuzz.boundary.UNBOUNDED_SPAN`` (the
+shortest valid length up to that plus ``pfuzz.counting.UNBOUNDED_SPAN`` (the
 same bound as its boundary suite, recorded in the manifest); rejects may be
 ``distance`` characters longer.
 
@@ -48,12 +48,12 @@ from pathlib import Path
 from typing import Callable
 
 from . import __version__, records
-from .boundary import UNBOUNDED_SPAN
+from .counting import UNBOUNDED_SPAN
 from .corpusfiles import (CHECKSUMS_NAME, FORMAT_TAG, MANIFEST_NAME, Staging, check_target,
                           csv_text, json_text, jsonl_text)
 from .corpusrows import (RecordTables, case_ids, edit_list, record_tables,
                          reject_reason)
-from .errors import PfuzzError
+from .errors import ArgumentError
 from .profile import Field, Profile, ProfileError, load_profile
 from .randomness import RandomSource
 
@@ -146,7 +146,7 @@ def write_corpus(profile: "Profile | str | Path", out_dir: "str | Path", seed: i
 def _choose_seed(profile: Profile, seed: int | None) -> int:
     chosen = seed if seed is not None else (profile.seed if profile.seed is not None else 0)
     if not isinstance(chosen, int) or isinstance(chosen, bool) or chosen < 0:
-        raise PfuzzError(f"seed must be a non-negative integer, not {chosen!r}")
+        raise ArgumentError(f"seed must be a non-negative integer, not {chosen!r}")
     return chosen
 
 

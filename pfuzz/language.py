@@ -168,10 +168,12 @@ class Language:
 
     def rejects(self, n: int, *, distance: int = 1, kinds: Sequence[str] | None = None,
                 seed=None, min_length: int | None = None, max_length: int | None = None,
-                edges: bool = False):
+                edges: bool = False, progress=None):
+        """``n`` near-miss rejects, each with its kinds, nearest witness and edit script."""
         from .nearmiss import sample_rejects
         return sample_rejects(self.dfa, n, distance=distance, kinds=kinds, seed=seed,
-                              min_length=min_length, max_length=max_length, edges=edges)
+                              min_length=min_length, max_length=max_length, edges=edges,
+                              progress=progress)
 
     # -- boundary suites and back-translation ---------------------------------------------
     def boundary_cases(self, max_length: int | None = None):
