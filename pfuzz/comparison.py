@@ -1,7 +1,7 @@
 """Two languages side by side: the difference languages A − B and B − A.
 
 Used by ``pfuzz diff`` and by the exact audit of a regex validator. Each
-difference is a ``Language`` (a product automaton, see ``pfuzz.dfa``), so it
+difference is a ``Language`` (a product automaton, see ``pfuzz.algebra``), so it
 is summarised exactly: its count per length (``pfuzz.counting``), its total
 when finite, its shortest strings in shortlex order, and a pattern for it
 written back by state elimination (``pfuzz.elimination``). Every pattern is

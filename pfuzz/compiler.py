@@ -54,6 +54,7 @@ from __future__ import annotations
 from typing import Callable
 
 from . import dfa as automata
+from .algebra import complement
 from .charset import ALL, CharSet, partition
 from .dfa import DEAD, DEFAULT_STATE_CAP, DFA
 from .nfa import ASSERT, CHAR, NFA, build
@@ -227,7 +228,7 @@ class _Shared:
     def _assertion(self, node: Anchor | Lookahead, context: int):
         if isinstance(node, Lookahead):
             body = self.compile(node.item, context, any_suffix=True)
-            return self.obligation(self.intern(automata.complement(body) if node.negative else body))
+            return self.obligation(self.intern(complement(body) if node.negative else body))
         if node.kind == "text_start":
             return _NO_OBLIGATIONS if context == START else _BLOCKED
         if node.kind == "line_start":

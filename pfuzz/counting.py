@@ -40,7 +40,7 @@ import bisect
 from itertools import islice
 from typing import Iterator
 
-from . import dfa as automata
+from . import algebra
 from .dfa import DFA
 from .errors import NotInLanguageError, RankOutOfRangeError
 
@@ -56,9 +56,9 @@ class Counter:
         self.dfa = dfa
         live = dfa.live_states()
         self.empty = 0 not in live
-        self.min_length = automata.min_length(dfa)
-        self.max_length = automata.max_length(dfa)
-        self.finite = automata.is_finite(dfa)
+        self.min_length = algebra.min_length(dfa)
+        self.max_length = algebra.max_length(dfa)
+        self.finite = algebra.is_finite(dfa)
         self.groups = [_groups(dfa, s, live) for s in range(dfa.n_states)]
         self._pieces = [_pieces(groups) for groups in self.groups]
         self._edges = [tuple((t, _width(rs)) for t, rs in groups) for groups in self.groups]

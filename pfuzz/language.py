@@ -15,9 +15,9 @@ from __future__ import annotations
 from functools import cached_property
 from typing import Iterator, Sequence
 
-from . import dfa as automata
+from . import algebra
 from .charset import CharSet
-from .dfa import DEFAULT_STATE_CAP, DFA
+from .dfa import DEFAULT_STATE_CAP, DFA, universal
 
 
 class Language:
@@ -71,39 +71,39 @@ class Language:
         return self.dfa.is_empty()
 
     def is_finite(self) -> bool:
-        return automata.is_finite(self.dfa)
+        return algebra.is_finite(self.dfa)
 
     @cached_property
     def min_length(self) -> int | None:
-        return automata.min_length(self.dfa)
+        return algebra.min_length(self.dfa)
 
     @cached_property
     def max_length(self) -> int | None:
         """Longest accepted length; None when unbounded (or empty)."""
-        return automata.max_length(self.dfa)
+        return algebra.max_length(self.dfa)
 
     def shortest(self) -> str | None:
-        return automata.shortest(self.dfa)
+        return algebra.shortest(self.dfa)
 
     # -- boolean algebra ---------------------------------------------------------------
     def complement(self) -> "Language":
-        return self._wrap(automata.complement(self.dfa))
+        return self._wrap(algebra.complement(self.dfa))
 
     def __and__(self, other: "Language") -> "Language":
-        return self._wrap(automata.intersection(self.dfa, other.dfa))
+        return self._wrap(algebra.intersection(self.dfa, other.dfa))
 
     def __or__(self, other: "Language") -> "Language":
-        return self._wrap(automata.union(self.dfa, other.dfa))
+        return self._wrap(algebra.union(self.dfa, other.dfa))
 
     def __sub__(self, other: "Language") -> "Language":
-        return self._wrap(automata.difference(self.dfa, other.dfa))
+        return self._wrap(algebra.difference(self.dfa, other.dfa))
 
     def __xor__(self, other: "Language") -> "Language":
-        return self._wrap(automata.symmetric_difference(self.dfa, other.dfa))
+        return self._wrap(algebra.symmetric_difference(self.dfa, other.dfa))
 
     def distinguish(self, other: "Language") -> str | None:
         """None when equal, else the shortlex-least string in exactly one of them."""
-        return automata.distinguish(self.dfa, other.dfa)
+        return algebra.distinguish(self.dfa, other.dfa)
 
     def equivalent(self, other: "Language") -> bool:
         return self.distinguish(other) is None
@@ -111,11 +111,11 @@ class Language:
     def with_any_suffix(self) -> "Language":
         """L·U*: the strings that start with a string of L. Not ``re.match`` of the
         pattern when it ends in ``$`` (compile with ``mode="match"`` for that)."""
-        return self._wrap(automata.with_any_suffix(self.dfa))
+        return self._wrap(algebra.with_any_suffix(self.dfa))
 
     def with_any_prefix(self) -> "Language":
         """U*·L: the strings that end with a string of L."""
-        return self._wrap(automata.concatenate(automata.universal(self.universe), self.dfa))
+        return self._wrap(algebra.concatenate(universal(self.universe), self.dfa))
 
     # -- counting and sampling (pfuzz.counting) -------------------------------------------
     @property

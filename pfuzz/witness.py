@@ -37,7 +37,7 @@ from __future__ import annotations
 
 import heapq
 
-from . import dfa as automata
+from . import algebra
 from .dfa import DEAD, DFA
 from .editscript import Edit, Explanation, apply_edits
 from .errors import EmptyLanguageError
@@ -62,7 +62,7 @@ class _Corrector:
                     any_pred[t].add(q)
         self.pred_any = [sorted(ps) for ps in any_pred]
         self.out = [_targets(dfa, q) for q in range(n)]
-        self.shortest = automata.min_length(dfa)
+        self.shortest = algebra.min_length(dfa)
         self._class_of: dict[str, int] = {}
 
     def classes_of(self, text: str) -> list[int]:

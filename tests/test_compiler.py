@@ -8,9 +8,10 @@ import time
 import pytest
 
 import pfuzz
-from pfuzz import dfa as automata
+from pfuzz import algebra
 from pfuzz.charset import ALL, UNIVERSES, CharSet
 from pfuzz.compiler import compile_dfa, compile_tree
+from pfuzz.dfa import DEFAULT_STATE_CAP
 from pfuzz.errors import PatternError, StateLimitError
 from pfuzz.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
 
@@ -38,7 +39,7 @@ def star(item):
 DOT_STAR = star(Chars(NO_NEWLINE))
 
 
-def compiled(tree, universe: str | CharSet, cap: int = automata.DEFAULT_STATE_CAP):
+def compiled(tree, universe: str | CharSet, cap: int = DEFAULT_STATE_CAP):
     alphabet = CharSet.from_chars(universe) if isinstance(universe, str) else universe
     return compile_tree(tree, alphabet, cap=cap, resolve=lambda node, u: node.chars & u)
 
@@ -94,11 +95,11 @@ def test_lookahead_at_the_start_is_an_intersection():
     # (?=X)Y == L(Y) ∩ L(X)·U* and (?!X)Y == L(Y) − L(X)·U* when X has no end assertion.
     x = seq(Repeat(cls("a"), 1, 2), cls("b"))
     y = star(Alternation((cls("a"), cls("b"))))
-    ly, lx = compiled(y, "ab"), automata.with_any_suffix(compiled(x, "ab"))
+    ly, lx = compiled(y, "ab"), algebra.with_any_suffix(compiled(x, "ab"))
     positive = compiled(seq(Lookahead(x, False), y), "ab")
     negative = compiled(seq(Lookahead(x, True), y), "ab")
-    assert automata.distinguish(positive, automata.intersection(ly, lx)) is None
-    assert automata.distinguish(negative, automata.difference(ly, lx)) is None
+    assert algebra.distinguish(positive, algebra.intersection(ly, lx)) is None
+    assert algebra.distinguish(negative, algebra.difference(ly, lx)) is None
 
 
 def password_rule(classes):
@@ -115,8 +116,8 @@ def test_password_rule_equals_the_intersection_of_its_parts():
     elapsed = time.perf_counter() - start
     expected = compiled(Repeat(Chars(NO_NEWLINE), 8, 64), PRINTABLE)
     for c in classes:
-        expected = automata.intersection(expected, compiled(seq(DOT_STAR, c, DOT_STAR), PRINTABLE))
-    assert automata.distinguish(rule, expected) is None
+        expected = algebra.intersection(expected, compiled(seq(DOT_STAR, c, DOT_STAR), PRINTABLE))
+    assert algebra.distinguish(rule, expected) is None
     # Four "seen a class" bits and lengths 0..64 (then 65 = "too long" collapses to dead).
     assert rule.n_states <= 16 * 65
     assert elapsed < 2.0

@@ -18,7 +18,8 @@ import pytest
 from hypothesis import given, settings, strategies as st
 
 from pfuzz.charset import UNIVERSES, CharSet
-from pfuzz.dfa import DFA, concatenate, difference, explore, from_strings, minimise, universal
+from pfuzz.algebra import concatenate, difference, distinguish
+from pfuzz.dfa import DFA, explore, from_strings, minimise, universal
 from pfuzz.elimination import DEFAULT_LIMIT, NOTHING_TEXT, pattern_of
 
 PRINTABLE = UNIVERSES["printable"]
@@ -63,7 +64,6 @@ def assert_round_trip(dfa: DFA, pattern: str) -> None:
     import pfuzz
 
     back = pfuzz.compile(pattern, dfa.universe)
-    from pfuzz.dfa import distinguish
     assert distinguish(back.dfa, dfa) is None, pattern
 
 

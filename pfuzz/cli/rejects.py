@@ -15,7 +15,7 @@ import sys
 import click
 
 from ..counting import UNBOUNDED_SPAN
-from ..dfa import is_finite
+from ..algebra import is_finite
 from ..nearmiss import KINDS, length_range, near_miss_dfa, sample_rejects
 from .common import (EXIT_DIFFERENT, compile_language, emit, escape_text, fail, format_option,
                      language_options, max_length_option, min_length_option, out_option,

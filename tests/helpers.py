@@ -1,0 +1,32 @@
+"""Shared test helpers: small random DFAs over a 3-letter alphabet and brute-force languages.
+
+The reference is direct simulation: a DFA's language is the set of strings up
+to length 6 over ``abc`` that it accepts, read one character at a time.
+"""
+
+from __future__ import annotations
+
+import itertools
+
+from hypothesis import strategies as st
+
+from pfuzz.charset import CharSet, partition
+from pfuzz.dfa import DFA
+
+UNIVERSE = CharSet.range("a", "c")
+CLASSES = tuple(partition([CharSet.single("a"), CharSet.single("b")], UNIVERSE))
+ALL_STRINGS = ["".join(p) for n in range(7) for p in itertools.product("abc", repeat=n)]
+
+
+@st.composite
+def random_dfas(draw):
+    """Partial DFAs of 1 to 6 states over the classes a, b, c, with random acceptance."""
+    n = draw(st.integers(1, 6))
+    table = tuple(tuple(draw(st.integers(-1, n - 1)) for _ in CLASSES) for _ in range(n))
+    accepting = frozenset(s for s in range(n) if draw(st.booleans()))
+    return DFA(UNIVERSE, CLASSES, table, accepting)
+
+
+def language(d: DFA) -> set[str]:
+    """Every string up to length 6 over abc that ``d`` accepts."""
+    return {w for w in ALL_STRINGS if d.accepts(w)}
