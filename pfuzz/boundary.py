@@ -107,12 +107,6 @@ def coverage(dfa: DFA) -> list[str]:
     return [text for text, _ in guide.cover()] if guide.reachable else []
 
 
-def transitions(dfa: DFA) -> list[tuple[int, CharSet, int]]:
-    """Every transition (state, label, target) between reachable live states, in suite order."""
-    guide = Guide(dfa)
-    return [(s, label, t) for s in guide.reachable for label, t in guide.edges[s]]
-
-
 # -- the cases ---------------------------------------------------------------------------
 
 def _ends(guide: Guide, lengths: Lengths) -> list[Case]:

@@ -32,14 +32,19 @@ class CharSet:
     def of(ranges: Iterable[tuple[int, int]]) -> "CharSet":
         """Normalise any iterable of inclusive (lo, hi) pairs."""
         items = sorted((lo, hi) for lo, hi in ranges if lo <= hi)
-        merged: list[list[int]] = []
+        if not items:
+            return CharSet()
+        merged: list[tuple[int, int]] = []
+        low, high = items[0]
         for lo, hi in items:
-            if merged and lo <= merged[-1][1] + 1:
-                if hi > merged[-1][1]:
-                    merged[-1][1] = hi
+            if lo <= high + 1:
+                if hi > high:
+                    high = hi
             else:
-                merged.append([lo, hi])
-        return CharSet(tuple((lo, hi) for lo, hi in merged))
+                merged.append((low, high))
+                low, high = lo, hi
+        merged.append((low, high))
+        return CharSet(tuple(merged))
 
     @staticmethod
     def from_chars(chars: Iterable[str | int]) -> "CharSet":

@@ -41,7 +41,7 @@ from itertools import islice
 from typing import Iterator
 
 from . import algebra
-from .dfa import DFA
+from .dfa import DFA, transitions
 from .errors import NotInLanguageError, RankOutOfRangeError
 
 #: For a language without a longest string, the default ``max_length`` is
@@ -59,7 +59,7 @@ class Counter:
         self.min_length = algebra.min_length(dfa)
         self.max_length = algebra.max_length(dfa)
         self.finite = algebra.is_finite(dfa)
-        self.groups = [_groups(dfa, s, live) for s in range(dfa.n_states)]
+        self.groups = [[(t, label.ranges) for label, t in row] for row in transitions(dfa, live)]
         self._pieces = [_pieces(groups) for groups in self.groups]
         self._edges = [tuple((t, _width(rs)) for t, rs in groups) for groups in self.groups]
         self._levels: list[list[int]] = [[1 if s in dfa.accepting else 0
@@ -262,17 +262,6 @@ class _Pieces:
             if below[self.targets[k]]:
                 return k, self.los[k]
         return None
-
-
-def _groups(dfa: DFA, state: int, live: set[int]) -> list[tuple[int, tuple[tuple[int, int], ...]]]:
-    """(target, sorted ranges) for each live target of ``state``, by first code point."""
-    ranges: dict[int, list[tuple[int, int]]] = {}
-    for c, target in enumerate(dfa.table[state]):
-        if target in live:
-            ranges.setdefault(target, []).extend(dfa.classes[c].ranges)
-    groups = [(t, tuple(sorted(rs))) for t, rs in ranges.items()]
-    groups.sort(key=lambda g: g[1][0][0])
-    return groups
 
 
 def _pieces(groups) -> _Pieces:

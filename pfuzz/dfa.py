@@ -40,7 +40,7 @@ from __future__ import annotations
 import bisect
 from collections import deque
 from dataclasses import dataclass, field
-from typing import Callable, Hashable, Iterable, Optional
+from typing import Callable, Container, Hashable, Iterable, Optional
 
 from .charset import CharSet, partition
 from .errors import StateLimitError
@@ -140,6 +140,27 @@ class DFA:
 
     def is_complete(self) -> bool:
         return all(t >= 0 for row in self.table for t in row)
+
+
+def transitions(dfa: DFA, live: Optional[Container[int]] = None) -> list[list[tuple[CharSet, int]]]:
+    """Per state, its transitions merged per target: (characters, target), by least character.
+
+    The dead state is left out, and so is every target outside ``live`` when it
+    is given. This is the one place where a row over symbol classes becomes one
+    character set per target state.
+    """
+    classes = dfa.classes
+    out = []
+    for row in dfa.table:
+        groups: dict[int, list[CharSet]] = {}
+        for c, t in enumerate(row):
+            if t >= 0 and (live is None or t in live):
+                groups.setdefault(t, []).append(classes[c])
+        edges = [(sets[0] if len(sets) == 1 else CharSet.of(r for cs in sets for r in cs.ranges), t)
+                 for t, sets in groups.items()]
+        edges.sort(key=lambda edge: edge[0].min)
+        out.append(edges)
+    return out
 
 
 # -- construction --------------------------------------------------------------

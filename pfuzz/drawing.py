@@ -3,8 +3,8 @@
 States are drawn as circles (accepting states as double circles), with an
 arrow into the start state from a point; the dead state is left out. All the
 symbol classes leading from one state to the same next state are merged into
-one edge (``pfuzz.boundary.transitions``), labelled with the shortest ``re`` class text for their union over
-the universe (``pfuzz.expression.class_text``: ``[0-9]``, ``[^,]``, ``.``).
+one edge (``pfuzz.dfa.transitions``), labelled with the shortest ``re`` class text for
+their union over the universe (``pfuzz.expression.class_text``: ``[0-9]``, ``[^,]``, ``.``).
 DOT is the Graphviz language (graphviz.org/doc/info/lang.html); SVG needs the
 Graphviz ``dot`` program on the PATH, run as a subprocess.
 
@@ -16,8 +16,7 @@ from __future__ import annotations
 import shutil
 import subprocess
 
-from .boundary import transitions
-from .dfa import DFA
+from .dfa import DFA, transitions
 from .errors import PfuzzError
 from .expression import class_text
 
@@ -48,8 +47,9 @@ def to_dot(dfa: DFA, title: str | None = None) -> str:
     for s in range(dfa.n_states):
         shape = ", shape=doublecircle" if s in dfa.accepting else ""
         lines.append(f'  s{s} [label="{s}"{shape}];')
-    for s, label, t in transitions(dfa):
-        lines.append(f"  s{s} -> s{t} [label={_quoted(class_text(label, dfa.universe))}];")
+    for s, row in enumerate(transitions(dfa)):
+        lines.extend(f"  s{s} -> s{t} [label={_quoted(class_text(label, dfa.universe))}];"
+                     for label, t in row)
     lines.append("}")
     return "\n".join(lines) + "\n"
 

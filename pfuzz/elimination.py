@@ -27,8 +27,7 @@ from __future__ import annotations
 
 import heapq
 
-from .boundary import transitions
-from .dfa import DFA
+from .dfa import DFA, transitions
 from .expression import EMPTY, NODE_CHARGE, NOTHING, NOTHING_TEXT, Algebra, Expr, TooLarge
 
 __all__ = ["DEFAULT_LIMIT", "NOTHING_TEXT", "pattern_of", "eliminate"]
@@ -72,8 +71,9 @@ class _Graph:
     START, FINAL = -1, -2
 
     def __init__(self, dfa: DFA, algebra: Algebra):
-        edges = transitions(dfa)
-        states = {s for s, _, _ in edges} | {t for _, _, t in edges} | ({0} & dfa.live_states())
+        live = dfa.live_states()
+        edges = [(s, label, t) for s, row in enumerate(transitions(dfa, live)) for label, t in row]
+        states = {s for s, _, _ in edges} | {t for _, _, t in edges} | ({0} & live)
         self.succ: dict[int, dict[int, Expr]] = {s: {} for s in (*states, self.START, self.FINAL)}
         self.pred: dict[int, dict[int, Expr]] = {s: {} for s in self.succ}
         self.size = dict.fromkeys(self.succ, 0)

@@ -33,7 +33,7 @@ from functools import cached_property
 
 from .charset import CharSet
 from .counting import UNBOUNDED_SPAN  # one default length bound for unbounded languages
-from .dfa import DFA
+from .dfa import DFA, transitions
 
 
 #: How many transitions the transition cover looks ahead for one not yet taken.
@@ -46,7 +46,7 @@ class Guide:
     def __init__(self, dfa: DFA):
         self.dfa = dfa
         self.live = dfa.live_states()
-        self.edges = [_labels(dfa, s, self.live) if s in self.live else [] for s in range(dfa.n_states)]
+        self.edges = transitions(dfa, self.live)
         self.reachable, self._parent = self._breadth_first()
         self._next = self._completion_steps()
         self._prefix: dict[int, str] = {0: ""}
@@ -171,17 +171,6 @@ class Guide:
             for label, t in self.edges[s]:
                 preds.setdefault(t, []).append((label, s))
         return preds
-
-
-def _labels(dfa: DFA, state: int, live: set[int]) -> list[tuple[CharSet, int]]:
-    """The transitions out of ``state`` as (label, target), by smallest character."""
-    ranges: dict[int, list[tuple[int, int]]] = {}
-    for c, t in enumerate(dfa.table[state]):
-        if t >= 0 and t in live:
-            ranges.setdefault(t, []).extend(dfa.classes[c].ranges)
-    edges = [(CharSet.of(rs), t) for t, rs in ranges.items()]
-    edges.sort(key=lambda edge: edge[0].min)
-    return edges
 
 
 def _path(dfa: DFA, text: str) -> list[tuple[int, int]]:

@@ -38,7 +38,8 @@ from __future__ import annotations
 import heapq
 
 from . import algebra
-from .dfa import DEAD, DFA
+from .charset import CharSet
+from .dfa import DEAD, DFA, transitions
 from .editscript import Edit, Explanation, apply_edits
 from .errors import EmptyLanguageError
 
@@ -61,7 +62,7 @@ class _Corrector:
                     self.pred[c][t].append(q)
                     any_pred[t].add(q)
         self.pred_any = [sorted(ps) for ps in any_pred]
-        self.out = [_targets(dfa, q) for q in range(n)]
+        self.out = [_targets(row) for row in transitions(dfa)]
         self.shortest = algebra.min_length(dfa)
         self._class_of: dict[str, int] = {}
 
@@ -342,18 +343,9 @@ class _Problem:
         self.best: int | None = None
 
 
-def _targets(dfa: DFA, q: int) -> list[tuple[int, str, str | None]]:
-    """Live targets of q with the two least characters leading there, by least character."""
-    chars: dict[int, list[int]] = {}
-    for c, t in enumerate(dfa.table[q]):
-        if t != DEAD:
-            cls = dfa.classes[c]
-            chars.setdefault(t, []).extend(cls.nth(j) for j in range(min(2, len(cls))))
-    out = []
-    for t, points in chars.items():
-        least = sorted(points)[:2]
-        out.append((t, chr(least[0]), chr(least[1]) if len(least) > 1 else None))
-    return sorted(out, key=lambda item: item[1])
+def _targets(row: list[tuple[CharSet, int]]) -> list[tuple[int, str, str | None]]:
+    """A state's live targets with the two least characters leading there, by least character."""
+    return [(t, chr(label.min), chr(label.nth(1)) if len(label) > 1 else None) for label, t in row]
 
 
 def by_identity(store: dict, dfa: DFA, build, size: int = 32):

@@ -11,7 +11,7 @@ import itertools
 from hypothesis import strategies as st
 
 from pfuzz.charset import CharSet, partition
-from pfuzz.dfa import DFA
+from pfuzz.dfa import DFA, transitions
 
 UNIVERSE = CharSet.range("a", "c")
 CLASSES = tuple(partition([CharSet.single("a"), CharSet.single("b")], UNIVERSE))
@@ -30,3 +30,8 @@ def random_dfas(draw):
 def language(d: DFA) -> set[str]:
     """Every string up to length 6 over abc that ``d`` accepts."""
     return {w for w in ALL_STRINGS if d.accepts(w)}
+
+
+def flat_transitions(d: DFA) -> list[tuple[int, CharSet, int]]:
+    """Every merged transition (state, characters, target) of ``d``, state by state."""
+    return [(s, label, t) for s, row in enumerate(transitions(d)) for label, t in row]

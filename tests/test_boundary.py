@@ -16,8 +16,9 @@ import pytest
 from hypothesis import given, settings, strategies as st
 
 import pfuzz
+from helpers import flat_transitions
 from pfuzz import boundary
-from pfuzz.boundary import coverage, suite, transitions
+from pfuzz.boundary import coverage, suite
 from pfuzz.counting import UNBOUNDED_SPAN
 from pfuzz.charset import CharSet
 from pfuzz.dfa import explore, from_strings, minimise
@@ -200,7 +201,7 @@ def assert_covers(dfa):
     assert all(dfa.accepts(s) for s in strings)
     union = set().union(*(taken(dfa, s) for s in strings)) if strings else set()
     assert union == live_transitions_from_table(dfa)
-    assert len(strings) <= len(transitions(dfa))
+    assert len(strings) <= len(flat_transitions(dfa))
     return strings
 
 
@@ -245,7 +246,7 @@ def test_suite_is_deterministic(pattern):
 def test_size_bounds(pattern):
     dfa = compiled(pattern).dfa
     cases = suite(dfa)
-    edges = transitions(dfa)
+    edges = flat_transitions(dfa)
     ranges = sum(len(label.ranges) for _, label, _ in edges)
     count = {k: sum(c.category == k for c in cases) for k in boundary.CATEGORIES}
     assert count["shortest"] == 1 and count["longest"] <= 1
@@ -279,7 +280,7 @@ def test_every_distinct_range_is_tested_at_its_first_state(pattern):
     guide = Guide(dfa)
     texts = {c.text: c.expected for c in suite(dfa)}
     first: dict[tuple[int, int], tuple[int, int]] = {}
-    for s, label, t in transitions(dfa):
+    for s, label, t in flat_transitions(dfa):
         for lo, hi in label.ranges:
             first.setdefault((lo, hi), (s, t))
     for (lo, hi), (s, t) in first.items():

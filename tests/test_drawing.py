@@ -9,7 +9,7 @@ from __future__ import annotations
 import re
 
 import pfuzz
-from pfuzz.boundary import transitions
+from helpers import flat_transitions
 from pfuzz.drawing import to_dot
 
 EDGE = re.compile(r'^  s(\d+) -> s(\d+) \[label="((?:[^"\\]|\\.)*)"\];$', re.M)
@@ -43,7 +43,7 @@ def test_parallel_classes_become_one_edge_with_a_readable_label():
 def test_labels_match_exactly_the_characters_of_their_transition():
     for pattern in [r'[^,"]+', r'\d{2}\.\d', r'"[^"\\]*"', r"(?i)ab|\s"]:
         lang = pfuzz.compile(pattern)
-        expected = {(s, t): label for s, label, t in transitions(lang.dfa)}
+        expected = {(s, t): label for s, label, t in flat_transitions(lang.dfa)}
         for s, t, label in EDGE.findall(to_dot(lang.dfa, title=pattern)):
             chars = expected[int(s), int(t)]
             compiled = re.compile(dot_unquote(label))  # reference: Python's re
