@@ -19,7 +19,7 @@ import click
 
 from ..charset import DEFAULT_UNIVERSE, UNIVERSES
 from ..dfa import DEFAULT_STATE_CAP
-from ..errors import PatternError, PfuzzError
+from ..errors import EmptyLanguageError, PatternError, PfuzzError
 from ..files import write_atomic
 
 EXIT_OK, EXIT_DIFFERENT, EXIT_USAGE = 0, 1, 2
@@ -48,11 +48,32 @@ def report_errors(func):
                 raise
             where = f" at column {error.position}" if error.position is not None else ""
             fail(f"bad pattern{where}: {error.message}", error.caret())
+        except EmptyLanguageError as error:
+            if (ctx.find_root().obj or {}).get("debug"):
+                raise
+            fail(str(error), _universe_hint(kwargs))
         except (PfuzzError, OSError) as error:
             if (ctx.find_root().obj or {}).get("debug"):
                 raise
             fail(str(error))
     return wrapper
+
+
+def _universe_hint(options: dict) -> str:
+    """When a pattern is empty only because of the universe, say so."""
+    pattern, universe = options.get("pattern"), options.get("universe")
+    if pattern is None or universe in (None, "unicode"):
+        return ""
+    try:
+        wider = compile_language(pattern, "unicode", options.get("flags", 0),
+                                 options.get("state_cap", DEFAULT_STATE_CAP))
+    except PfuzzError:
+        return ""
+    if wider.is_empty():
+        return ""
+    example = wider.shortest()
+    return (f"  the pattern matches {escape_text(example)!r}, but only with characters outside the "
+            f"universe {universe!r}; widen it, e.g. --universe unicode")
 
 
 def pattern_input(func):
