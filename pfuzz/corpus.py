@@ -53,8 +53,8 @@ from .corpusfiles import (CHECKSUMS_NAME, FORMAT_TAG, MANIFEST_NAME, Staging, ch
                           csv_text, json_text, jsonl_text)
 from .corpusrows import (RecordTables, case_ids, edit_list, record_tables,
                          reject_reason)
-from .errors import ArgumentError
-from .profile import Field, Profile, ProfileError, load_profile
+from .errors import ArgumentError, ProfileError
+from .profile import Field, Profile, load_profile
 from .randomness import RandomSource
 
 CASE_COLUMNS = ("case_id", "field", "value", "expected", "category", "reason", "witness",

@@ -14,7 +14,8 @@ from hypothesis import given, settings, strategies as st
 from pfuzz import corpusfiles
 from pfuzz.corpus import CASE_COLUMNS, write_corpus
 from pfuzz.corpusfiles import (CorpusExistsError, csv_text, jsonl_text, read_csv, read_jsonl)
-from pfuzz.profile import ProfileError, load_profile
+from pfuzz.errors import ProfileError
+from pfuzz.profile import load_profile
 
 SMALL = """
 [profile]

@@ -1,42 +1,16 @@
-"""The edit-neighbourhood automaton: inclusion cuts, range edges, configurations."""
+"""The edit-neighbourhood automaton: antichain cuts, range edges, the edges-mode definition."""
 
 from __future__ import annotations
 
+import itertools
 import random
+import re
 
 import pytest
 
 import pfuzz
-from pfuzz import dfa as automata
-from pfuzz.algebra import difference
 from pfuzz import neighbourhood
-from pfuzz.neighbourhood import KINDS, build, dominators, edge_characters
-
-
-def from_state(dfa, q):
-    """The language of ``dfa`` read from state q."""
-    return automata.minimise(automata.explore(
-        q, lambda s, c: None if dfa.table[s][c] < 0 else dfa.table[s][c],
-        lambda s: s in dfa.accepting, dfa.classes, dfa.universe))
-
-
-def test_dominators_on_a_small_chain():
-    # a|ab over {a, b}: after "a" the rest is {"", "b"}, after "ab" it is {""}.
-    dfa = pfuzz.compile("a|ab", universe="[ab]").dfa
-    after_a, after_ab = dfa.run("a"), dfa.run("ab")
-    beaten = dominators(dfa)
-    assert beaten[after_ab] == 1 << after_a
-    assert beaten[after_a] == 0 and beaten[0] == 0
-
-
-@pytest.mark.parametrize("pattern", ["(ab|b)*a?", "a{2,5}|b+a", "(a|b)*a(a|b){2}", "[ab]{0,3}b?"])
-def test_dominators_agree_with_language_difference(pattern):
-    dfa = pfuzz.compile(pattern, universe="[ab]").dfa
-    beaten = dominators(dfa)
-    for q in range(dfa.n_states):
-        for p in range(dfa.n_states):
-            included = difference(from_state(dfa, q), from_state(dfa, p)).is_empty()
-            assert bool(beaten[q] >> p & 1) == (included and p != q), (pattern, q, p)
+from pfuzz.neighbourhood import KINDS, build, edge_characters
 
 
 @pytest.mark.parametrize("seed", range(6))
@@ -46,7 +20,7 @@ def test_cutting_dominated_states_keeps_the_language(seed, monkeypatch):
     dfa = pfuzz.compile(pattern, universe="[ab]").dfa
     kinds = tuple(rng.sample(KINDS, rng.randint(1, 4)))
     cut = build(dfa, 2, kinds, False)
-    monkeypatch.setattr(neighbourhood, "dominators", lambda d: [0] * d.n_states)
+    monkeypatch.setattr(neighbourhood, "dominators", lambda d, *relations: [0] * d.n_states)
     assert build(dfa, 2, kinds, False) == cut
 
 
@@ -60,3 +34,58 @@ def test_edges_stop_at_the_universe():
     lang = pfuzz.compile("[ -!]x")
     first = edge_characters(lang.dfa)[0]
     assert set(first.values()) == {frozenset({ord('"')})}  # no U+001F in printable ASCII
+
+
+# -- range edges: the cuts and the definition ---------------------------------------------
+
+def edges_pattern(rng: random.Random) -> str:
+    """A small pattern over a-e whose classes leave characters just outside them."""
+    atoms = ["a", "c", "e", "[b-c]", "[a-b]", "[c-e]", "[bd]", "(b|de)", "[b-d]*", "c?"]
+    return "".join(rng.choice(atoms) for _ in range(rng.randint(2, 3)))
+
+
+def all_strings(alphabet: str, max_length: int):
+    for n in range(max_length + 1):
+        yield from ("".join(chars) for chars in itertools.product(alphabet, repeat=n))
+
+
+def one_edge_edit(w: str, dfa) -> set[str]:
+    """Every string one edit from w, writing only range-edge characters (the definition)."""
+    edges = edge_characters(dfa)
+    path = [dfa.run(w[:i]) for i in range(len(w) + 1)]
+    out = set()
+    for i in range(len(w) + 1):
+        q = path[i]
+        out.update(w[:i] + chr(p) + w[i:] for e in edges[q].values() for p in e)
+        if i < len(w):
+            out.add(w[:i] + w[i + 1:])
+            out.update(w[:i] + chr(p) + w[i + 1:] for p in edges[q][path[i + 1]])
+        if i + 1 < len(w) and w[i] != w[i + 1]:
+            out.add(w[:i] + w[i + 1] + w[i] + w[i + 2:])
+    return out
+
+
+@pytest.mark.parametrize("seed", range(8))
+def test_edges_mode_is_its_definition(seed):
+    # Reference: re.fullmatch (the standard library) decides membership; the
+    # one-edit strings are written out from the definition in the module
+    # docstring, over the transition labels of the minimal DFA.
+    pattern = edges_pattern(random.Random(seed))
+    rx, lang = re.compile(pattern), pfuzz.compile(pattern, universe="[a-e]")
+    expected = set()
+    for w in all_strings("abcde", 5):
+        if rx.fullmatch(w):
+            expected |= {s for s in one_edge_edit(w, lang.dfa) if len(s) <= 4}
+    expected = {s for s in expected if not rx.fullmatch(s)}
+    nm = build(lang.dfa, 1, KINDS, True)
+    assert {s for s in all_strings("abcde", 4) if nm.accepts(s)} == expected, pattern
+
+
+@pytest.mark.parametrize("seed", range(4))
+def test_edges_mode_cuts_keep_the_language(seed, monkeypatch):
+    rng = random.Random(seed)
+    dfa = pfuzz.compile(edges_pattern(rng), universe="[a-e]").dfa
+    kinds = tuple(rng.sample(KINDS, rng.randint(2, 4)))
+    cut = build(dfa, 2, kinds, True)
+    monkeypatch.setattr(neighbourhood, "dominators", lambda d, *relations: [0] * d.n_states)
+    assert build(dfa, 2, kinds, True) == cut

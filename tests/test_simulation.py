@@ -1,0 +1,50 @@
+"""Simulation preorders: language inclusion, and the stricter one with extra moves and marks."""
+
+from __future__ import annotations
+
+import pytest
+
+import pfuzz
+from pfuzz import dfa as automata
+from pfuzz.algebra import difference
+from pfuzz.simulation import dominators
+
+
+def from_state(dfa, q):
+    """The language of ``dfa`` read from state q."""
+    return automata.minimise(automata.explore(
+        q, lambda s, c: None if dfa.table[s][c] < 0 else dfa.table[s][c],
+        lambda s: s in dfa.accepting, dfa.classes, dfa.universe))
+
+
+def test_dominators_on_a_small_chain():
+    # a|ab over {a, b}: after "a" the rest is {"", "b"}, after "ab" it is {""}.
+    dfa = pfuzz.compile("a|ab", universe="[ab]").dfa
+    after_a, after_ab = dfa.run("a"), dfa.run("ab")
+    beaten = dominators(dfa)
+    assert beaten[after_ab] == 1 << after_a
+    assert beaten[after_a] == 0 and beaten[0] == 0
+
+
+@pytest.mark.parametrize("pattern", ["(ab|b)*a?", "a{2,5}|b+a", "(a|b)*a(a|b){2}", "[ab]{0,3}b?"])
+def test_dominators_agree_with_language_difference(pattern):
+    dfa = pfuzz.compile(pattern, universe="[ab]").dfa
+    beaten = dominators(dfa)
+    for q in range(dfa.n_states):
+        for p in range(dfa.n_states):
+            included = difference(from_state(dfa, q), from_state(dfa, p)).is_empty()
+            assert bool(beaten[q] >> p & 1) == (included and p != q), (pattern, q, p)
+
+
+def test_simulation_with_written_moves_is_stricter_than_inclusion():
+    # After "a" the rest is [b-c], after "b" it is [a-c]: inclusion holds. An
+    # extra move from the state after "a" that the state after "b" lacks, or a
+    # mark on the first but not the second, breaks the simulation.
+    dfa = pfuzz.compile("a[b-c]|b[a-c]", universe="[a-d]").dfa
+    after_a, after_b = dfa.run("a"), dfa.run("b")
+    assert dominators(dfa)[after_a] >> after_b & 1  # L("[b-c]") is inside L("[a-c]")
+    writes = [0] * dfa.n_states
+    writes[after_a] = 1 << dfa.run("ab")
+    assert not dominators(dfa, [writes], [])[after_a] >> after_b & 1
+    marks = [1 << after_a]
+    assert not dominators(dfa, [], marks)[after_a] >> after_b & 1
