@@ -14,12 +14,16 @@ edit neighbourhood, and writes boundary suites and paired corpora.
 
 from .charset import CharSet, UNIVERSES
 from .dfa import DEFAULT_STATE_CAP, DFA
-from .errors import EmptyLanguageError, PatternError, PfuzzError, StateLimitError, UniverseError
+from .errors import (ArgumentError, EmptyLanguageError, GraphvizError, NotInLanguageError, PatternError,
+                     PfuzzError, ProfileError, RankOutOfRangeError, StateLimitError, TargetError,
+                     UniverseError)
 from .language import Language, compile
 
 __version__ = "0.1.0"
 
 __all__ = [
-    "CharSet", "DFA", "DEFAULT_STATE_CAP", "EmptyLanguageError", "Language", "PatternError",
-    "PfuzzError", "StateLimitError", "UNIVERSES", "UniverseError", "compile", "__version__",
+    "ArgumentError", "CharSet", "DFA", "DEFAULT_STATE_CAP", "EmptyLanguageError", "GraphvizError",
+    "Language", "NotInLanguageError", "PatternError", "PfuzzError", "ProfileError",
+    "RankOutOfRangeError", "StateLimitError", "TargetError", "UNIVERSES", "UniverseError", "compile",
+    "__version__",
 ]

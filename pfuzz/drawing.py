@@ -17,7 +17,7 @@ import shutil
 import subprocess
 
 from .dfa import DFA, transitions
-from .errors import PfuzzError
+from .errors import GraphvizError
 from .expression import class_text
 
 #: Seconds ``dot`` may take to lay out a graph.
@@ -26,10 +26,6 @@ DOT_TIMEOUT = 60
 INSTALL_HINT = ("install Graphviz to get SVG: 'apt-get install graphviz' (Debian, Ubuntu), "
                 "'dnf install graphviz' (Fedora), 'brew install graphviz' (macOS), or see "
                 "https://graphviz.org/download/; or write DOT with --out FILE.dot")
-
-
-class GraphvizError(PfuzzError):
-    """The ``dot`` program is missing or failed."""
 
 
 def _quoted(text: str) -> str:

@@ -57,5 +57,30 @@ class RankOutOfRangeError(PfuzzError, IndexError):
     """``unrank`` was asked for an index past the number of strings of that length."""
 
 
+class ProfileError(PfuzzError, ValueError):
+    """A profile that cannot be used; the message names the file, the table and the key.
+
+    ``detail`` holds an extra block (a pattern with a caret) or is empty.
+    """
+
+    def __init__(self, message: str, *, path: str = "", where: str = "", key: str = "",
+                 detail: str = ""):
+        prefix = ": ".join(p for p in (path, where, f"key '{key}'" if key else "") if p)
+        super().__init__(f"{prefix}: {message}" if prefix else message)
+        self.path, self.where, self.key, self.detail = path, where, key, detail
+
+
+class TargetError(PfuzzError):
+    """The validator could not be run to the end; ``detail`` holds its error output."""
+
+    def __init__(self, message: str, detail: str = ""):
+        super().__init__(message)
+        self.detail = detail
+
+
+class GraphvizError(PfuzzError):
+    """The ``dot`` program is missing or failed."""
+
+
 class PfuzzWarning(UserWarning):
     """Something worth saying that is not an error (e.g. fewer distinct strings than asked)."""

@@ -34,9 +34,9 @@ from pathlib import Path
 from . import records
 from .charset import DEFAULT_UNIVERSE
 from .dfa import explore, minimise
-from .errors import PatternError, StateLimitError, UniverseError
+from .errors import PatternError, ProfileError, StateLimitError, UniverseError
 from .nearmiss import KINDS as EDIT_KINDS
-from .tomlcheck import ProfileError, TableReader, hint
+from .tomlcheck import TableReader, hint
 
 DEFAULT_VALID = 100          #: valid strings per field
 DEFAULT_INVALID = 100        #: near-miss rejects per field

@@ -34,21 +34,13 @@ import sys
 from dataclasses import dataclass
 from typing import Callable
 
-from .errors import PfuzzError
+from .errors import TargetError
 
 #: Seconds a command target may take for the whole run.
 DEFAULT_TIMEOUT = 60.0
 MODES = ("fullmatch", "match", "search")
 ACCEPT_WORDS = ("1", "true", "accept")
 REJECT_WORDS = ("0", "false", "reject")
-
-
-class TargetError(PfuzzError):
-    """The validator could not be run to the end; ``detail`` holds its error output."""
-
-    def __init__(self, message: str, detail: str = ""):
-        super().__init__(message)
-        self.detail = detail
 
 
 @dataclass(frozen=True)

@@ -13,20 +13,7 @@ from __future__ import annotations
 
 import difflib
 
-from .errors import PfuzzError
-
-
-class ProfileError(PfuzzError, ValueError):
-    """A profile that cannot be used; the message names the file, the table and the key.
-
-    ``detail`` holds an extra block (a pattern with a caret) or is empty.
-    """
-
-    def __init__(self, message: str, *, path: str = "", where: str = "", key: str = "",
-                 detail: str = ""):
-        prefix = ": ".join(p for p in (path, where, f"key '{key}'" if key else "") if p)
-        super().__init__(f"{prefix}: {message}" if prefix else message)
-        self.path, self.where, self.key, self.detail = path, where, key, detail
+from .errors import ProfileError
 
 
 def hint(value: str, known, fallback: str) -> str:

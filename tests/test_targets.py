@@ -18,8 +18,8 @@ from pathlib import Path
 import pytest
 
 import pfuzz
-from pfuzz.targets import (CommandTarget, PythonTarget, RegexTarget, TargetError, Verdict,
-                           load_function)
+from pfuzz.errors import TargetError
+from pfuzz.targets import CommandTarget, PythonTarget, RegexTarget, Verdict, load_function
 
 FIXTURES = Path(__file__).parent / "fixtures" / "validators"
 TEXTS = ["AB-1234", "ab-1234", "AB-12345", "AB-1234\n", "\u00e9", "", "ZZ-0000"]

@@ -10,7 +10,8 @@ import click
 
 from ..audit import (DEFAULT_REJECT_UNIVERSE, DEFAULT_REJECTS, DEFAULT_VALID, EDIT_KINDS,
                      AuditReport, Settings, run_audit, stages)
-from ..targets import DEFAULT_TIMEOUT, MODES, CommandTarget, PythonTarget, RegexTarget, TargetError
+from ..errors import TargetError
+from ..targets import DEFAULT_TIMEOUT, MODES, CommandTarget, PythonTarget, RegexTarget
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
                      language_options, max_length_option, min_length_option, out_option,
                      report_errors, seed_option)

@@ -8,7 +8,8 @@ from pathlib import Path
 import click
 
 from ..corpus import step_count, write_corpus
-from ..profile import ProfileError, load_profile
+from ..errors import ProfileError
+from ..profile import load_profile
 from .common import fail, out_option, report_errors, seed_option
 
 
