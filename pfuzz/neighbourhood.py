@@ -70,7 +70,7 @@ bounded e-mail pattern has a 9,500-state minimal near-miss DFA at distance
 from __future__ import annotations
 
 from .charset import CharSet, partition
-from .dfa import DEAD, DEFAULT_STATE_CAP, DFA, explore, minimise
+from .dfa import DEFAULT_STATE_CAP, DFA, explore, minimise, transitions
 from .simulation import dominators
 
 #: The edit kinds, as edits that turn a valid string into a reject.
@@ -124,15 +124,6 @@ def _bit(t: int) -> int:
 
 # -- range edges -------------------------------------------------------------------------
 
-def _labels(dfa: DFA, q: int) -> dict[int, CharSet]:
-    """For state q, each live target and the characters leading there."""
-    ranges: dict[int, list] = {}
-    for c, t in enumerate(dfa.table[q]):
-        if t != DEAD:
-            ranges.setdefault(t, []).extend(dfa.classes[c].ranges)
-    return {t: CharSet.of(rs) for t, rs in ranges.items()}
-
-
 def _edges_of(label: CharSet, universe: CharSet) -> set[int]:
     points = set()
     for lo, hi in label.ranges:
@@ -142,9 +133,8 @@ def _edges_of(label: CharSet, universe: CharSet) -> set[int]:
 
 def edge_characters(dfa: DFA) -> dict[int, dict[int, frozenset[int]]]:
     """Per state and live target, the code points just outside the transition's ranges."""
-    return {q: {t: frozenset(_edges_of(label, dfa.universe))
-                for t, label in _labels(dfa, q).items()}
-            for q in range(dfa.n_states)}
+    return {q: {t: frozenset(_edges_of(label, dfa.universe)) for label, t in row}
+            for q, row in enumerate(transitions(dfa))}
 
 
 # -- the edit-neighbourhood automaton ---------------------------------------------------
