@@ -14,8 +14,8 @@ from ..errors import TargetError
 from ..targets import DEFAULT_TIMEOUT, MODES, CommandTarget, PythonTarget, RegexTarget
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
                      language_options, max_length_option, min_length_option, out_option,
-                     report_errors, seed_option)
-from .diff import comparison_dict, comparison_lines, quote, read_pattern_file
+                     read_pattern_file, report_errors, seed_option)
+from .diff import comparison_dict, comparison_lines, quote
 
 #: Failures listed per category in the text report (JSON lists them all).
 DEFAULT_SHOW = 10

@@ -86,13 +86,18 @@ def pattern_input(func):
         if (pattern_arg is None) == (pattern_file is None):
             fail("give a PATTERN argument or --pattern-file FILE (exactly one)")
         if pattern_file is not None:
-            try:
-                text = pattern_file.read_text(encoding="utf-8")
-            except OSError as error:
-                fail(f"cannot read pattern file {str(pattern_file)!r}: {error.strerror}")
-            pattern_arg = text[:-1] if text.endswith("\n") else text
+            pattern_arg = read_pattern_file(pattern_file)
         return func(*args, pattern=pattern_arg, **kwargs)
     return wrapper
+
+
+def read_pattern_file(path: Path) -> str:
+    """A pattern from a file (one pattern; a final newline is dropped); exit 2 if unreadable."""
+    try:
+        text = path.read_text(encoding="utf-8")
+    except OSError as error:
+        fail(f"cannot read pattern file {str(path)!r}: {error.strerror}")
+    return text[:-1] if text.endswith("\n") else text
 
 
 def language_options(func):

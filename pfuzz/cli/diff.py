@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import json
 import sys
-
 from pathlib import Path
 
 import click
@@ -12,7 +11,7 @@ import click
 from ..comparison import DEFAULT_EXAMPLES, Comparison, Side, compare
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, escape_text, fail,
                      format_option, language_options, max_length_option, out_option,
-                     report_errors)
+                     read_pattern_file, report_errors)
 
 
 @click.command("diff")
@@ -108,15 +107,6 @@ def pattern_label(side: Side) -> str:
     if side.pattern is None:
         return f"({side.note})"
     return side.pattern if side.pattern else '(the empty pattern: only "")'
-
-
-def read_pattern_file(path: Path) -> str:
-    """A pattern from a file (one pattern; a final newline is dropped)."""
-    try:
-        text = path.read_text(encoding="utf-8")
-    except OSError as error:
-        fail(f"cannot read pattern file {str(path)!r}: {error.strerror}")
-    return text[:-1] if text.endswith("\n") else text
 
 
 def quote(text: str) -> str:
