@@ -33,11 +33,18 @@ they were. Same profile, seed and versions → byte-identical files (no
 timestamps, sorted keys, shortlex-sorted field files).
 
 Cost: dominated by sampling and by explaining rejects (see those modules).
-A field's strings are written as soon as they are made and then let go; the
-rows of cases.csv stay in memory to the end, and each file is built whole
-before ``write_atomic`` writes it. Measured by ``benchmarks/corpus.py``: 49 MB
-peak for the demo profile, 809 MB for 967,347 cases over five fields (about
-0.8 KB per case), 26 s of CPU, most of it in witness search and sampling.
+Every file is streamed (``Staging.open``, over ``pfuzz.files.atomic_writer``):
+rows are made one at a time and written, cases.csv stays open from the first
+field to the last and takes each case as its field is written, and checksums
+are computed on the way out. What stays in memory is one field's strings at a
+time: its valid strings and its rejects, each with witness and edit script
+(about 0.45 KB per reject, measured with ``tracemalloc``), which must all be
+at hand to be de-duplicated and sorted before the first is written; and a
+record's rows. Measured by ``benchmarks/corpus.py``: 49 MB peak for the demo
+profile; for 967,347 cases over five fields (10^5 valid and 10^5 rejects
+each), 116 MB peak (810 MB while files were built whole), of which about
+45 MB is the interpreter, numpy and the compiled languages, and 21 s of CPU,
+most of it in witness search and sampling.
 """
 
 from __future__ import annotations
@@ -50,7 +57,7 @@ from typing import Callable
 from . import __version__, records
 from .counting import UNBOUNDED_SPAN
 from .corpusfiles import (CHECKSUMS_NAME, FORMAT_TAG, MANIFEST_NAME, Staging, check_target,
-                          csv_text, json_text, jsonl_text)
+                          csv_writer, json_text, jsonl_line)
 from .corpusrows import (RecordTables, case_ids, edit_list, record_tables,
                          reject_reason)
 from .errors import ArgumentError, ProfileError
@@ -127,16 +134,17 @@ def write_corpus(profile: "Profile | str | Path", out_dir: "str | Path", seed: i
     tick = progress or (lambda label: None)
     seeds = _child_seeds(profile, seed)
     with Staging(out_dir, replace=replace) as staging:
-        writer = _Writer(staging, profile, seed)
-        plans = {}
-        for field in profile.fields:
-            made = _field_cases(field, seeds[field.name], tick)
-            writer.add_field(made)
-            plans[field.name] = made.plan()
-            del made                        # its strings are written: let them go
-        if profile.record:
-            writer.add_record(record_tables(profile.record, plans, seeds["record"]))
-            tick(f"record {profile.record.name}")
+        with staging.open("cases.csv") as cases_handle:
+            writer = _Writer(staging, profile, seed, cases_handle)
+            plans = {}
+            for field in profile.fields:
+                made = _field_cases(field, seeds[field.name], tick)
+                writer.add_field(made)
+                plans[field.name] = made.plan()
+                del made                    # its strings are written: let them go
+            if profile.record:
+                writer.add_record(record_tables(profile.record, plans, seeds["record"]))
+                tick(f"record {profile.record.name}")
         summary = writer.finish()
         staging.commit()
     tick("written")
@@ -208,63 +216,80 @@ def _shortlex(text: str) -> tuple[int, str]:
 
 # -- rows of the files -----------------------------------------------------------
 
-def _field_files(made: FieldCases):
-    """(relative path, JSONL rows, cases.csv rows) for the three files of one field."""
+def _field_parts(made: FieldCases):
+    """(relative path, iterator of (JSONL row, cases.csv row)) for the three files of a field,
+    made lazily so that no file's rows are ever all in memory."""
     name = made.field.name
-    base = f"fields/{name}"
-    valid_ids = case_ids(f"{name}:valid", len(made.valid))
-    valid_rows = [{"id": i, "length": len(t), "text": t} for i, t in zip(valid_ids, made.valid)]
+    paths = [f"fields/{name}/{part}.jsonl" for part in PARTS]
+    return list(zip(paths, (_valid_items(made, paths[0]), _reject_items(made, paths[1]),
+                            _boundary_items(made, paths[2]))))
+
+
+def _valid_items(made: FieldCases, path: str):
+    name = made.field.name
     reason = ("every valid string of the length window" if made.valid_mode == "all"
               else "drawn uniformly by length")
-    valid_file, rejects_file, boundary_file = (f"{base}/{part}.jsonl" for part in PARTS)
-    valid_cases = [(i, name, t, ACCEPT, "valid", reason, "", "", valid_file)
-                   for i, t in zip(valid_ids, made.valid)]
-    reject_ids = case_ids(f"{name}:reject", len(made.rejects))
-    reject_rows, reject_cases = [], []
-    for i, r in zip(reject_ids, made.rejects):
+    for i, text in zip(case_ids(f"{name}:valid", len(made.valid)), made.valid):
+        yield ({"id": i, "length": len(text), "text": text},
+               (i, name, text, ACCEPT, "valid", reason, "", "", path))
+
+
+def _reject_items(made: FieldCases, path: str):
+    name = made.field.name
+    for i, r in zip(case_ids(f"{name}:reject", len(made.rejects)), made.rejects):
         script = edit_list(r)
-        reject_rows.append({**r.as_dict(), "id": i, "length": len(r.text), "script": script})
-        reject_cases.append((i, name, r.text, REJECT, "near-miss", reject_reason(r),
-                             r.witness, "; ".join(script), rejects_file))
-    boundary_ids = case_ids(f"{name}:boundary", len(made.boundary))
-    boundary_rows = [{"id": i, "text": c.text, "expected": ACCEPT if c.expected else REJECT,
-                      "category": c.category, "reason": c.reason}
-                     for i, c in zip(boundary_ids, made.boundary)]
-    boundary_cases = [(i, name, c.text, ACCEPT if c.expected else REJECT, c.category, c.reason,
-                       "", "", boundary_file) for i, c in zip(boundary_ids, made.boundary)]
-    return [(valid_file, valid_rows, valid_cases), (rejects_file, reject_rows, reject_cases),
-            (boundary_file, boundary_rows, boundary_cases)]
+        yield ({**r.as_dict(), "id": i, "length": len(r.text), "script": script},
+               (i, name, r.text, REJECT, "near-miss", reject_reason(r), r.witness,
+                "; ".join(script), path))
+
+
+def _boundary_items(made: FieldCases, path: str):
+    name = made.field.name
+    for i, c in zip(case_ids(f"{name}:boundary", len(made.boundary)), made.boundary):
+        expected = ACCEPT if c.expected else REJECT
+        yield ({"id": i, "text": c.text, "expected": expected, "category": c.category,
+                "reason": c.reason},
+               (i, name, c.text, expected, c.category, c.reason, "", "", path))
 
 
 class _Writer:
-    """Writes each part as it is made and keeps only the cases.csv rows and manifest facts."""
+    """Streams each part to its file as it is made, and its cases to the open cases.csv;
+    keeps only the manifest facts."""
 
-    def __init__(self, staging: Staging, profile: Profile, seed: int):
+    def __init__(self, staging: Staging, profile: Profile, seed: int, cases_handle):
         self.staging, self.profile, self.seed = staging, profile, seed
-        self.cases: list[tuple] = []
+        self.cases = csv_writer(cases_handle)
+        self.cases.writerow(CASE_COLUMNS)
         self.field_facts: dict[str, dict] = {}
         self.record_facts: dict | None = None
         self.summary = CorpusSummary(out_dir=staging.out_dir, seed=seed, files=staging.files)
 
     def add_field(self, made: FieldCases) -> None:
-        for path, rows, field_cases in _field_files(made):
-            self.staging.write(path, jsonl_text(rows))
-            self.cases.extend(field_cases)
+        for path, items in _field_parts(made):
+            with self.staging.open(path) as out:
+                for row, case in items:
+                    out.write(jsonl_line(row))
+                    self.cases.writerow(case)
+                    self.summary.cases += 1
         self.summary.fields[made.field.name] = {
             "valid": len(made.valid), "rejects": len(made.rejects), "boundary": len(made.boundary)}
         self.field_facts[made.field.name] = _field_manifest(made)
 
     def add_record(self, tables: RecordTables) -> None:
         for path, header, rows in tables.files():
-            self.staging.write(path, csv_text(header, rows))
-        self.cases.extend(tables.cases())
+            with self.staging.open(path) as out:
+                table = csv_writer(out)
+                table.writerow(header)
+                table.writerows(rows)
+        for case in tables.cases():
+            self.cases.writerow(case)
+            self.summary.cases += 1
         self.summary.record = {"name": tables.record.name, "valid_rows": len(tables.valid),
                                "invalid_rows": len(tables.invalid)}
         self.record_facts = tables.manifest()
 
     def finish(self) -> CorpusSummary:
-        self.staging.write("cases.csv", csv_text(list(CASE_COLUMNS), self.cases))
-        self.summary.cases = len(self.cases)
+        """Write the manifest and SHA256SUMS (after cases.csv is closed and counted)."""
         manifest = _manifest(self.profile, self.seed, self.field_facts, self.record_facts,
                              self.staging.files)
         self.staging.write(MANIFEST_NAME, json_text(manifest, indent=2, sort_keys=False) + "\n")

@@ -14,7 +14,8 @@ contains (commas, quotes, CR, LF, tabs, NUL, leading spaces, non-ASCII):
   module, written and read with ``newline=''``).
 
 Staging. ``Staging`` writes every file into a temporary sibling of the output
-directory (each file with ``pfuzz.files.write_atomic``) and renames the whole
+directory (each file streamed through ``pfuzz.files.atomic_writer``, its
+SHA-256 computed on the way out) and renames the whole
 directory into place only when every file is written, so an interrupted run
 leaves the old directory (or nothing) and never a half-written corpus. Any
 exception removes the temporary directory. With ``replace=True`` an existing
@@ -31,10 +32,12 @@ import json
 import os
 import shutil
 import tempfile
+from contextlib import contextmanager
 from pathlib import Path
+from typing import Iterator, TextIO
 
 from .errors import PfuzzError
-from .files import sha256_of, write_atomic
+from .files import Checksum, atomic_writer
 
 #: Written by every corpus; ``--force`` replaces only a directory that holds it.
 MANIFEST_NAME = "manifest.json"
@@ -63,17 +66,27 @@ def json_text(value, indent: int | None = None, sort_keys: bool = True) -> str:
     return text
 
 
+def jsonl_line(row) -> str:
+    """One JSON Lines record: the object and its line end."""
+    return json_text(row) + "\n"
+
+
 def jsonl_text(rows) -> str:
-    return "".join(json_text(row) + "\n" for row in rows)
+    return "".join(jsonl_line(row) for row in rows)
 
 
 def read_jsonl(text: str) -> list:
     return [json.loads(line) for line in text.split("\n") if line]
 
 
+def csv_writer(handle: TextIO):
+    """An RFC 4180 writer on ``handle`` (which must not translate line ends)."""
+    return csv.writer(handle)
+
+
 def csv_text(header: list[str], rows) -> str:
     buffer = io.StringIO(newline="")
-    writer = csv.writer(buffer)
+    writer = csv_writer(buffer)
     writer.writerow(header)
     writer.writerows(rows)
     return buffer.getvalue()
@@ -134,11 +147,19 @@ class Staging:
         if self.temp is not None and self.temp.exists():
             shutil.rmtree(self.temp, ignore_errors=True)
 
+    @contextmanager
+    def open(self, relative: str) -> Iterator[TextIO]:
+        """A text handle (UTF-8, line ends written as given) for one file under the staging
+        directory; the file and its digest count only once the block ends without error."""
+        checksum = Checksum()
+        with atomic_writer(self.temp / relative, checksum=checksum) as handle:
+            yield handle
+        self.files[relative] = {"bytes": checksum.size, "sha256": checksum.sha256}
+
     def write(self, relative: str, text: str) -> None:
-        """Write one file (UTF-8) under the staging directory and remember its digest."""
-        data = text.encode("utf-8")
-        write_atomic(self.temp / relative, data)
-        self.files[relative] = {"bytes": len(data), "sha256": sha256_of(data)}
+        """Write one whole file (UTF-8) under the staging directory."""
+        with self.open(relative) as handle:
+            handle.write(text)
 
     def checksums_text(self) -> str:
         """``sha256sum`` format ("DIGEST  PATH"), so ``sha256sum -c`` can check the corpus."""

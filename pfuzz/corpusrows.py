@@ -21,6 +21,7 @@ per field, one Faker per context column.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Iterator
 
 from . import records
 from .corpusfiles import json_text
@@ -44,30 +45,31 @@ class RecordTables:
     def base(self) -> str:
         return f"records/{self.record.name}"
 
-    def _valid_ids(self) -> list[str]:
+    def _valid_ids(self) -> Iterator[str]:
         return case_ids(f"{self.record.name}:row", len(self.valid))
 
-    def _invalid_ids(self) -> list[str]:
+    def _invalid_ids(self) -> Iterator[str]:
         return case_ids(f"{self.record.name}:bad-row", len(self.invalid))
 
     def files(self):
-        """(relative path, header, rows) for valid.csv and invalid.csv."""
+        """(relative path, header, rows) for valid.csv and invalid.csv; rows are made lazily."""
         columns = list(self.record.columns)
-        valid = [[i, *(row[c] for c in columns)] for i, row in zip(self._valid_ids(), self.valid)]
-        invalid = [[i, *(row[c] for c in columns), bad, _reason(bad, r), r.witness, _edits(r)]
-                   for i, (row, bad, r) in zip(self._invalid_ids(), self.invalid)]
+        valid = ([i, *(row[c] for c in columns)] for i, row in zip(self._valid_ids(), self.valid))
+        invalid = ([i, *(row[c] for c in columns), bad, _reason(bad, r), r.witness, _edits(r)]
+                   for i, (row, bad, r) in zip(self._invalid_ids(), self.invalid))
         return [(f"{self.base}/valid.csv", [*VALID_HEADER, *columns], valid),
                 (f"{self.base}/invalid.csv", [*VALID_HEADER, *columns, *INVALID_EXTRA], invalid)]
 
-    def cases(self) -> list[tuple]:
-        """Rows for cases.csv; ``value`` is the whole row as a JSON object in column order."""
+    def cases(self) -> Iterator[tuple]:
+        """Rows for cases.csv, made lazily; ``value`` is the whole row as a JSON object in
+        column order."""
         name = self.record.name
-        out = [(i, name, _row_json(row), "accept", "valid row", "every field valid", "", "",
-                f"{self.base}/valid.csv") for i, row in zip(self._valid_ids(), self.valid)]
-        out += [(i, name, _row_json(row), "reject", "invalid row", _reason(bad, r), r.witness,
-                 _edits(r), f"{self.base}/invalid.csv")
-                for i, (row, bad, r) in zip(self._invalid_ids(), self.invalid)]
-        return out
+        for i, row in zip(self._valid_ids(), self.valid):
+            yield (i, name, _row_json(row), "accept", "valid row", "every field valid", "", "",
+                   f"{self.base}/valid.csv")
+        for i, (row, bad, r) in zip(self._invalid_ids(), self.invalid):
+            yield (i, name, _row_json(row), "reject", "invalid row", _reason(bad, r), r.witness,
+                   _edits(r), f"{self.base}/invalid.csv")
 
     def manifest(self) -> dict:
         rec = self.record
@@ -81,10 +83,10 @@ class RecordTables:
         }
 
 
-def case_ids(prefix: str, n: int) -> list[str]:
-    """``prefix:0001`` ... (at least four digits, so ids sort as text)."""
+def case_ids(prefix: str, n: int) -> Iterator[str]:
+    """``prefix:0001`` ... (at least four digits, so ids sort as text), made lazily."""
     width = max(4, len(str(n)))
-    return [f"{prefix}:{i + 1:0{width}d}" for i in range(n)]
+    return (f"{prefix}:{i + 1:0{width}d}" for i in range(n))
 
 
 def edit_list(reject) -> list[str]:

@@ -313,16 +313,18 @@ def test_force_never_replaces_the_current_directory(tmp_path, monkeypatch):
 
 
 def _fail_after(monkeypatch, n: int):
-    real = corpusfiles.write_atomic
+    """Interrupt the run when the file after the first ``n`` is opened (cases.csv is
+    open throughout, so the interruption lands while it is half-written)."""
+    real = corpusfiles.atomic_writer
     calls = []
 
-    def flaky(path, data, *args, **kwargs):
+    def flaky(path, *args, **kwargs):
         calls.append(path)
         if len(calls) > n:
             raise KeyboardInterrupt("simulated interruption")
-        return real(path, data, *args, **kwargs)
+        return real(path, *args, **kwargs)
 
-    monkeypatch.setattr(corpusfiles, "write_atomic", flaky)
+    monkeypatch.setattr(corpusfiles, "atomic_writer", flaky)
 
 
 def test_interrupted_write_leaves_no_partial_directory(tmp_path, monkeypatch):
