@@ -1,0 +1,197 @@
+"""Atomic writes: whole-file and streaming, interruption, concurrent writers, checksums."""
+
+from __future__ import annotations
+
+import hashlib
+import os
+import subprocess
+import sys
+import threading
+from pathlib import Path
+
+import pytest
+from hypothesis import given, settings, strategies as st
+
+from pfuzz import files
+from pfuzz.files import BUFFER_SIZE, Checksum, atomic_writer, sha256_of, write_atomic
+
+OLD = "old contents\n"
+
+
+def leftovers(directory: Path) -> list[str]:
+    """The temporary siblings (``.NAME.XXXX.tmp``) present in ``directory``."""
+    return sorted(p.name for p in directory.iterdir() if p.name.endswith(".tmp"))
+
+
+@pytest.fixture
+def old_file(tmp_path) -> Path:
+    path = tmp_path / "data.txt"
+    path.write_text(OLD, encoding="utf-8")
+    return path
+
+
+# -- whole-file writes ------------------------------------------------------------
+
+def test_write_atomic_writes_text_as_utf8_and_bytes_as_given(tmp_path):
+    write_atomic(tmp_path / "a" / "t.txt", "é\r\n")         # parent directories are made
+    write_atomic(tmp_path / "b.bin", b"\x00\xff")
+    assert (tmp_path / "a" / "t.txt").read_bytes() == "é\r\n".encode("utf-8")
+    assert (tmp_path / "b.bin").read_bytes() == b"\x00\xff"
+    assert leftovers(tmp_path) == [] and leftovers(tmp_path / "a") == []
+
+
+def test_failed_rename_keeps_the_old_file_and_no_temporary(old_file, monkeypatch):
+    def broken(source, target):
+        raise OSError("simulated: rename failed")
+
+    monkeypatch.setattr(files.os, "replace", broken)
+    with pytest.raises(OSError, match="rename failed"):
+        write_atomic(old_file, "new")
+    assert old_file.read_text(encoding="utf-8") == OLD
+    assert leftovers(old_file.parent) == []
+
+
+# -- the streaming writer ------------------------------------------------------------
+
+def test_streaming_writer_replaces_the_file_when_the_block_ends(old_file):
+    with atomic_writer(old_file) as out:
+        out.write("new ")
+        assert old_file.read_text(encoding="utf-8") == OLD     # not yet visible
+        out.write("text")
+    assert old_file.read_text(encoding="utf-8") == "new text"
+    assert out.closed
+    with pytest.raises(ValueError):
+        out.write("late")
+
+
+@pytest.mark.parametrize("interruption", [KeyboardInterrupt, RuntimeError])
+def test_interrupted_stream_keeps_the_old_file_and_no_temporary(old_file, interruption):
+    # More than one buffer, so part of the new text has reached the temporary file.
+    with pytest.raises(interruption):
+        with atomic_writer(old_file) as out:
+            out.write("x" * (3 * BUFFER_SIZE))
+            assert leftovers(old_file.parent)                  # the temporary exists
+            raise interruption("simulated interruption")
+    assert old_file.read_text(encoding="utf-8") == OLD
+    assert leftovers(old_file.parent) == []
+
+
+def test_unencodable_text_keeps_the_old_file(old_file):
+    with pytest.raises(UnicodeEncodeError):
+        with atomic_writer(old_file) as out:
+            out.write("fine, then a lone surrogate: \ud800")
+    assert old_file.read_text(encoding="utf-8") == OLD
+    assert leftovers(old_file.parent) == []
+
+
+_KILLED_WRITER = """
+import os, signal, sys
+from pfuzz.files import BUFFER_SIZE, atomic_writer
+with atomic_writer(sys.argv[1]) as out:
+    out.write("x" * (2 * BUFFER_SIZE))
+    out.flush()
+    os.kill(os.getpid(), signal.SIGKILL)
+"""
+
+
+@pytest.mark.skipif(sys.platform == "win32", reason="SIGKILL is POSIX")
+def test_process_killed_mid_write_leaves_the_old_file_whole(old_file):
+    done = subprocess.run([sys.executable, "-c", _KILLED_WRITER, str(old_file)])
+    assert done.returncode == -9
+    assert old_file.read_text(encoding="utf-8") == OLD
+    # Nothing can clean up after SIGKILL: the hidden temporary stays, the target is intact.
+    assert len(leftovers(old_file.parent)) == 1
+
+
+def test_line_ends_are_the_callers_choice(tmp_path):
+    text = "a\nb\r\nc\r"
+    with atomic_writer(tmp_path / "exact.txt") as out:            # default: as written
+        out.write(text)
+    with atomic_writer(tmp_path / "crlf.txt", newline="\r\n") as out:
+        out.write(text)
+    assert (tmp_path / "exact.txt").read_bytes() == text.encode()
+    # newline="\r\n" turns each "\n" written into "\r\n", as for open() (Python io docs).
+    assert (tmp_path / "crlf.txt").read_bytes() == b"a\r\nb\r\r\nc\r"
+
+
+def test_other_encodings(tmp_path):
+    with atomic_writer(tmp_path / "l1.txt", encoding="latin-1") as out:
+        out.write("é")
+    assert (tmp_path / "l1.txt").read_bytes() == b"\xe9"      # ISO 8859-1: U+00E9 is 0xE9
+
+
+# -- checksums while streaming ---------------------------------------------------------
+
+@settings(max_examples=60, deadline=None, database=None)
+@given(st.lists(st.text(), max_size=30), st.integers(0, 3))
+def test_streamed_checksum_is_sha256_of_the_final_file(tmp_path_factory, pieces, repeat):
+    path = tmp_path_factory.mktemp("sum") / "f.txt"
+    checksum = Checksum()
+    with atomic_writer(path, checksum=checksum) as out:
+        for _ in range(repeat):
+            for piece in pieces:                 # st.text() draws no lone surrogates
+                out.write(piece)
+    raw = path.read_bytes()
+    assert raw == "".join(pieces * repeat).encode("utf-8")
+    # Reference: hashlib over the bytes on disk (Python standard library).
+    assert checksum.sha256 == hashlib.sha256(raw).hexdigest() == sha256_of(raw)
+    assert checksum.size == len(raw)
+
+
+def test_checksum_of_a_file_larger_than_the_buffer(tmp_path):
+    path, checksum = tmp_path / "big.txt", Checksum()
+    with atomic_writer(path, checksum=checksum) as out:
+        for i in range(200_000):
+            out.write(f"{i},é,\u2028\r\n")
+    raw = path.read_bytes()
+    assert len(raw) > BUFFER_SIZE
+    assert checksum.sha256 == hashlib.sha256(raw).hexdigest() and checksum.size == len(raw)
+
+
+def test_empty_file_checksum(tmp_path):
+    checksum = Checksum()
+    with atomic_writer(tmp_path / "empty", checksum=checksum):
+        pass
+    # SHA-256 of the empty string, FIPS 180-4 test value (quoted from memory; hashlib agrees).
+    empty = "e3b0c44298fc1c149afbf4c8996fb92427ae41e4649b934ca495991b7852b855"
+    assert checksum.sha256 == empty == hashlib.sha256(b"").hexdigest()
+    assert (tmp_path / "empty").read_bytes() == b"" and checksum.size == 0
+
+
+# -- writers at the same time ------------------------------------------------------------
+
+def test_open_writers_get_distinct_temporaries(tmp_path):
+    path = tmp_path / "shared.txt"
+    with atomic_writer(path) as first, atomic_writer(path) as second:
+        first.write("first")
+        second.write("second")
+        assert len(leftovers(tmp_path)) == 2
+    # The inner block ends first, so the outer writer's rename comes last and wins.
+    assert path.read_text(encoding="utf-8") == "first"
+    assert leftovers(tmp_path) == []
+
+
+def test_concurrent_threads_leave_one_whole_file(tmp_path):
+    path = tmp_path / "shared.txt"
+    contents = [f"writer {n}\n" * 20_000 for n in range(8)]
+    start = threading.Barrier(len(contents))
+    errors = []
+
+    def write(text: str) -> None:
+        try:
+            start.wait()
+            with atomic_writer(path) as out:
+                for line in text.splitlines(keepends=True):
+                    out.write(line)
+        except BaseException as error:          # reported below, not lost in the thread
+            errors.append(error)
+
+    threads = [threading.Thread(target=write, args=(text,)) for text in contents]
+    for thread in threads:
+        thread.start()
+    for thread in threads:
+        thread.join()
+    assert errors == []
+    assert path.read_text(encoding="utf-8") in contents       # one writer's text, whole
+    assert leftovers(tmp_path) == []
+    assert os.listdir(tmp_path) == ["shared.txt"]
