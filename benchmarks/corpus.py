@@ -1,10 +1,9 @@
 """Corpus writing: wall time, CPU time and peak memory for the demo profile and a large profile.
 
-Each case runs in a fresh Python process so that its peak resident set size
-(``resource.getrusage(RUSAGE_SELF).ru_maxrss``, kilobytes on Linux) belongs
-to that case alone; it includes the bare interpreter, whose own figure is the
-``baseline`` row. CPU time (``time.process_time``) is the steadier figure on
-a shared machine; wall time is given beside it.
+Each case runs in a fresh Python process (``benchmarks._child``) so that its
+peak resident set size belongs to that case alone; it includes the bare
+interpreter, whose own figure is the ``baseline`` row. CPU time is the
+steadier figure on a shared machine; wall time is given beside it.
 
 The large profile has five fields of realistic validator patterns and asks
 10^5 valid strings and 10^5 near-miss rejects of each (quick mode: 10^3),
@@ -13,13 +12,10 @@ with no record.
 
 from __future__ import annotations
 
-import json
-import subprocess
-import sys
 import tempfile
 from pathlib import Path
 
-ROOT = Path(__file__).resolve().parent.parent
+from ._child import ROOT, measure
 DEMO = ROOT / "profiles" / "demo.toml"
 
 LARGE_FIELDS = [
@@ -39,26 +35,15 @@ def large_profile(n: int) -> str:
     return "\n".join(parts)
 
 
-_CHILD = """
-import json, resource, sys, time
-t0, c0 = time.perf_counter(), time.process_time()
-if sys.argv[1] != "-":
-    from pfuzz.corpus import write_corpus
-    summary = write_corpus(sys.argv[1], sys.argv[2], seed=0)
-    size = sum(f["bytes"] for f in summary.files.values())
-    cases = summary.cases
-else:
-    size = cases = 0
-print(json.dumps({"wall_s": time.perf_counter() - t0, "cpu_s": time.process_time() - c0,
-                  "peak_rss_mb": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024,
-                  "bytes": size, "cases": cases}))
+_CORPUS = """
+from pfuzz.corpus import write_corpus
+summary = write_corpus(sys.argv[1], sys.argv[2], seed=0)
+result.update(bytes=sum(f["bytes"] for f in summary.files.values()), cases=summary.cases)
 """
 
 
 def _measure(profile: str, out: str) -> dict:
-    done = subprocess.run([sys.executable, "-c", _CHILD, profile, out], capture_output=True,
-                          text=True, cwd=ROOT, check=True)
-    return json.loads(done.stdout)
+    return {"bytes": 0, "cases": 0, **measure(_CORPUS if profile != "-" else "", profile, out)}
 
 
 def _row(label: str, figures: dict) -> dict:
