@@ -14,9 +14,10 @@ Constructions, each with its source:
 - ``distinguish``: breadth-first search of the product, characters in
   increasing order, which finds the shortlex-least string in the symmetric
   difference; ``shortest`` and ``min_length`` ask it against the empty language.
-- ``is_finite`` and ``max_length``: depth-first search over the live states
-  reachable from the start; a back edge (a cycle through a live state) means
-  an infinite language, otherwise the longest path to acceptance is the bound.
+- ``is_finite``, ``max_length`` and ``longest_completions``: depth-first search
+  over the live states reachable from the start; a back edge (a cycle through
+  a live state) means an infinite language, otherwise the longest path to
+  acceptance from each state is its bound.
 
 Cost: the products are O(states_a × states_b × classes) steps in pure Python
 (about a microsecond per table cell) before minimisation; ``distinguish`` visits
@@ -156,23 +157,27 @@ def min_length(dfa: DFA) -> Optional[int]:
 
 def is_finite(dfa: DFA) -> bool:
     """True when no cycle passes through a live state reachable from the start."""
-    return _longest(dfa) is not None
+    return longest_completions(dfa) is not None
 
 
 def max_length(dfa: DFA) -> Optional[int]:
     """Length of the longest accepted string; None if unbounded or empty."""
-    longest = _longest(dfa)
-    return None if longest is None or longest < 0 else longest
+    best = longest_completions(dfa)
+    return None if best is None or best[0] < 0 else best[0]
 
 
-def _longest(dfa: DFA) -> Optional[int]:
-    """Longest accepted length (-1 if empty), or None when infinite."""
+def longest_completions(dfa: DFA) -> Optional[list[int]]:
+    """Per state, the longest length from it to acceptance, or None when the language is infinite.
+
+    States the search from the start does not reach (and every state of the
+    empty language) get -1.
+    """
     live = dfa.live_states()
+    best = [-1] * dfa.n_states
     if 0 not in live:
-        return -1
+        return best
     WHITE, GREY, BLACK = 0, 1, 2
     colour = [WHITE] * dfa.n_states
-    best = [-1] * dfa.n_states
     stack = [(0, iter(dfa.table[0]))]
     colour[0] = GREY
     while stack:
@@ -197,4 +202,4 @@ def _longest(dfa: DFA) -> Optional[int]:
             if t >= 0 and t in live and best[t] >= 0:
                 here = max(here, best[t] + 1)
         best[s] = here
-    return best[0]
+    return best

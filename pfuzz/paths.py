@@ -31,6 +31,7 @@ from __future__ import annotations
 from collections import deque
 from functools import cached_property
 
+from . import algebra
 from .charset import CharSet
 from .counting import UNBOUNDED_SPAN  # one default length bound for unbounded languages
 from .dfa import DFA, transitions
@@ -192,7 +193,7 @@ class Lengths:
         self.guide = guide
         dfa = guide.dfa
         self.min = len(guide.completion(0))
-        self.finite_max = _longest_length(guide)
+        self.finite_max = algebra.max_length(dfa)
         if max_length is not None:
             self.bound = max_length
         else:
@@ -250,38 +251,9 @@ class Lengths:
         return self._reach
 
 
-def _longest_length(guide: Guide) -> int | None:
-    """Greatest valid length, or None when the language is unbounded."""
-    best = _longest_table(guide)
-    return None if best is None else best[0]
-
-
-def _longest_table(guide: Guide) -> dict[int, int] | None:
-    """Per live state, the longest completion length; None if a live cycle is reachable."""
-    best: dict[int, int] = {}
-    on_path: set[int] = set()
-    stack = [(0, iter(guide.edges[0]))]
-    on_path.add(0)
-    while stack:
-        s, it = stack[-1]
-        for _, t in it:
-            if t in on_path:
-                return None
-            if t not in best:
-                on_path.add(t)
-                stack.append((t, iter(guide.edges[t])))
-                break
-        else:
-            stack.pop()
-            on_path.discard(s)
-            here = [best[t] + 1 for _, t in guide.edges[s]]
-            best[s] = max(here + ([0] if s in guide.dfa.accepting else []))
-    return best
-
-
 def _longest_string(guide: Guide) -> str:
     """The shortlex-least valid string of the greatest length (finite languages)."""
-    best = _longest_table(guide)
+    best = algebra.longest_completions(guide.dfa)
     s, chars = 0, []
     while best[s] > 0:
         label, s = next((l, t) for l, t in guide.edges[s] if best[t] == best[s] - 1)
