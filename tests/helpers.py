@@ -7,6 +7,7 @@ to length 6 over ``abc`` that it accepts, read one character at a time.
 from __future__ import annotations
 
 import itertools
+from typing import Iterator
 
 from hypothesis import strategies as st
 
@@ -15,7 +16,16 @@ from pfuzz.dfa import DFA, transitions
 
 UNIVERSE = CharSet.range("a", "c")
 CLASSES = tuple(partition([CharSet.single("a"), CharSet.single("b")], UNIVERSE))
-ALL_STRINGS = ["".join(p) for n in range(7) for p in itertools.product("abc", repeat=n)]
+
+
+def strings_upto(alphabet: str, max_length: int) -> Iterator[str]:
+    """Every string over ``alphabet`` of length 0 to ``max_length``: by length, then in product order."""
+    for n in range(max_length + 1):
+        for chars in itertools.product(alphabet, repeat=n):
+            yield "".join(chars)
+
+
+ALL_STRINGS = list(strings_upto("abc", 6))
 
 
 @st.composite

@@ -8,12 +8,12 @@ shortest examples, and the language of the pattern it writes for each side.
 
 from __future__ import annotations
 
-import itertools
 import re
 
 from hypothesis import given, settings, strategies as st
 
 import pfuzz
+from helpers import strings_upto
 from pfuzz.charset import CharSet
 from pfuzz.comparison import COUNT_SPAN, compare, count_bound, lift, summarise
 
@@ -39,8 +39,7 @@ def patterns(alphabet: str):
 def brute(pattern: str, alphabet: str) -> set[str]:
     """Reference: every string up to length N that re.fullmatch accepts."""
     compiled = re.compile(pattern)
-    return {"".join(p) for n in range(N + 1) for p in itertools.product(alphabet, repeat=n)
-            if compiled.fullmatch("".join(p))}
+    return {w for w in strings_upto(alphabet, N) if compiled.fullmatch(w)}
 
 
 def shortlex(strings) -> list[str]:

@@ -2,12 +2,12 @@
 
 from __future__ import annotations
 
-import itertools
 import time
 
 import pytest
 
 import pfuzz
+from helpers import strings_upto
 from pfuzz import algebra
 from pfuzz.charset import ALL, UNIVERSES, CharSet
 from pfuzz.compiler import compile_dfa, compile_tree
@@ -45,8 +45,7 @@ def compiled(tree, universe: str | CharSet, cap: int = DEFAULT_STATE_CAP):
 
 
 def accepted(dfa, universe: str, max_length: int) -> set[str]:
-    return {"".join(w) for n in range(max_length + 1)
-            for w in itertools.product(universe, repeat=n) if dfa.accepts("".join(w))}
+    return {w for w in strings_upto(universe, max_length) if dfa.accepts(w)}
 
 
 def test_literal_sequence_has_one_state_per_position():

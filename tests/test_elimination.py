@@ -17,6 +17,7 @@ import time
 import pytest
 from hypothesis import given, settings, strategies as st
 
+from helpers import strings_upto
 from pfuzz.charset import UNIVERSES, CharSet
 from pfuzz.algebra import concatenate, difference, distinguish
 from pfuzz.dfa import DFA, explore, from_strings, minimise, universal
@@ -51,10 +52,8 @@ def counted(chars: CharSet, lo: int, hi: int | None, universe: CharSet = PRINTAB
 def assert_same_as_re(dfa: DFA, pattern: str, alphabet: str, max_length: int) -> None:
     """Reference: re.fullmatch (Python's re) on every string up to max_length."""
     compiled = re.compile(pattern)
-    for length in range(max_length + 1):
-        for letters in itertools.product(alphabet, repeat=length):
-            text = "".join(letters)
-            assert dfa.accepts(text) == bool(compiled.fullmatch(text)), (pattern, text)
+    for text in strings_upto(alphabet, max_length):
+        assert dfa.accepts(text) == bool(compiled.fullmatch(text)), (pattern, text)
 
 
 def assert_round_trip(dfa: DFA, pattern: str) -> None:

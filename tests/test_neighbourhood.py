@@ -2,13 +2,13 @@
 
 from __future__ import annotations
 
-import itertools
 import random
 import re
 
 import pytest
 
 import pfuzz
+from helpers import strings_upto
 from pfuzz import neighbourhood
 from pfuzz.neighbourhood import KINDS, build, edge_characters
 
@@ -44,11 +44,6 @@ def edges_pattern(rng: random.Random) -> str:
     return "".join(rng.choice(atoms) for _ in range(rng.randint(2, 3)))
 
 
-def all_strings(alphabet: str, max_length: int):
-    for n in range(max_length + 1):
-        yield from ("".join(chars) for chars in itertools.product(alphabet, repeat=n))
-
-
 def one_edge_edit(w: str, dfa) -> set[str]:
     """Every string one edit from w, writing only range-edge characters (the definition)."""
     edges = edge_characters(dfa)
@@ -73,12 +68,12 @@ def test_edges_mode_is_its_definition(seed):
     pattern = edges_pattern(random.Random(seed))
     rx, lang = re.compile(pattern), pfuzz.compile(pattern, universe="[a-e]")
     expected = set()
-    for w in all_strings("abcde", 5):
+    for w in strings_upto("abcde", 5):
         if rx.fullmatch(w):
             expected |= {s for s in one_edge_edit(w, lang.dfa) if len(s) <= 4}
     expected = {s for s in expected if not rx.fullmatch(s)}
     nm = build(lang.dfa, 1, KINDS, True)
-    assert {s for s in all_strings("abcde", 4) if nm.accepts(s)} == expected, pattern
+    assert {s for s in strings_upto("abcde", 4) if nm.accepts(s)} == expected, pattern
 
 
 @pytest.mark.parametrize("seed", range(4))

@@ -11,6 +11,7 @@ import itertools
 
 import pytest
 
+from helpers import strings_upto
 from pfuzz.charset import CharSet
 from pfuzz.dfa import explore, from_strings, minimise
 from pfuzz.paths import Guide, Lengths
@@ -25,12 +26,6 @@ PREDICATES = [
 ]
 
 
-def strings_upto(n):
-    for k in range(n + 1):
-        for t in itertools.product(LETTERS, repeat=k):
-            yield "".join(t)
-
-
 def shortlex_least(strings):
     return min(strings, key=lambda s: (len(s), s), default=None)
 
@@ -38,14 +33,14 @@ def shortlex_least(strings):
 @pytest.fixture(params=range(len(PREDICATES)))
 def case(request):
     member = PREDICATES[request.param]
-    valid = [s for s in strings_upto(6) if member(s)]
+    valid = [s for s in strings_upto(LETTERS, 6) if member(s)]
     return from_strings(valid, UNIVERSE), valid
 
 
 def test_prefixes_and_completions_are_shortlex_least(case):
     dfa, valid = case
     guide = Guide(dfa)
-    all_strings = list(strings_upto(6))
+    all_strings = list(strings_upto(LETTERS, 6))
     for state in guide.reachable:
         reaching = [s for s in all_strings if dfa.run(s) == state]
         assert guide.prefix(state) == shortlex_least(reaching)

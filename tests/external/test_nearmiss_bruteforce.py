@@ -21,13 +21,13 @@ the witnesses up to length 6 (all to keep the run short).
 
 from __future__ import annotations
 
-import itertools
 import random
 import re
 
 import pytest
 
 import pfuzz
+from helpers import strings_upto
 from pfuzz.counting import Counter
 from pfuzz.nearmiss import KINDS, near_miss_dfa, sample_rejects
 from pfuzz.witness import apply_edits
@@ -100,12 +100,6 @@ def nearest(rx, s: str, alphabet: str, distance: int, kinds=KINDS):
     return None
 
 
-def all_strings(alphabet: str, max_length: int):
-    for n in range(max_length + 1):
-        for chars in itertools.product(alphabet, repeat=n):
-            yield "".join(chars)
-
-
 # -- random patterns from a small grammar ------------------------------------------------
 
 def random_pattern(rng: random.Random, alphabet: str, depth: int = 3) -> str:
@@ -134,7 +128,7 @@ def _case(alphabet, seed):
 def test_near_miss_language_is_the_definition(alphabet, distance, max_length, seed):
     pattern, rx, lang = _case(alphabet, seed)
     nm = near_miss_dfa(lang.dfa, distance)
-    for s in all_strings(alphabet, max_length):
+    for s in strings_upto(alphabet, max_length):
         expected = rx.fullmatch(s) is None and nearest(rx, s, alphabet, distance) is not None
         assert nm.accepts(s) == expected, (pattern, s)
 
@@ -145,7 +139,7 @@ def test_near_miss_language_is_the_definition(alphabet, distance, max_length, se
 def test_each_kind_is_its_own_language(alphabet, distance, max_length, seed, kind):
     pattern, rx, lang = _case(alphabet, seed)
     nm = near_miss_dfa(lang.dfa, distance, [kind])
-    for s in all_strings(alphabet, min(max_length, 6)):
+    for s in strings_upto(alphabet, min(max_length, 6)):
         expected = rx.fullmatch(s) is None and nearest(rx, s, alphabet, distance, [kind]) is not None
         assert nm.accepts(s) == expected, (pattern, kind, s)
 
@@ -153,7 +147,7 @@ def test_each_kind_is_its_own_language(alphabet, distance, max_length, seed, kin
 @pytest.mark.parametrize("alphabet,distance,max_length,seed", CASES[::2])
 def test_witnesses_are_the_shortlex_least_nearest(alphabet, distance, max_length, seed):
     pattern, rx, lang = _case(alphabet, seed)
-    for s in all_strings(alphabet, min(max_length, 6)):
+    for s in strings_upto(alphabet, min(max_length, 6)):
         if rx.fullmatch(s) or lang.is_empty():
             continue
         found = nearest(rx, s, alphabet, distance)
@@ -185,7 +179,7 @@ def test_counts_agree_with_the_brute_force_set():
     pattern, rx, lang = _case("ab", 3)
     nm = Counter(near_miss_dfa(lang.dfa, 2))
     for n in range(7):
-        expected = sum(1 for s in all_strings("ab", n) if len(s) == n and rx.fullmatch(s) is None
+        expected = sum(1 for s in strings_upto("ab", n) if len(s) == n and rx.fullmatch(s) is None
                        and nearest(rx, s, "ab", 2) is not None)
         assert nm.count(n) == expected
 
@@ -197,7 +191,7 @@ def test_far_texts_get_a_true_nearest_string():
         pattern, rx, lang = _case("ab", seed)
         if lang.is_empty():
             continue
-        pool = [w for w in all_strings("ab", 9) if rx.fullmatch(w)]
+        pool = [w for w in strings_upto("ab", 9) if rx.fullmatch(w)]
         for s in ["", "b", "aaaa", "babab", "bbbbbb"]:
             if rx.fullmatch(s):
                 continue

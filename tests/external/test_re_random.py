@@ -11,12 +11,12 @@ exercise ``(?i)``.
 
 from __future__ import annotations
 
-import itertools
 import re
 
 import pytest
 from hypothesis import given, settings, strategies as st
 
+from helpers import strings_upto
 from pfuzz.charset import ALL, CharSet
 from pfuzz.compiler import compile_dfa, compile_tree
 from pfuzz.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
@@ -111,19 +111,13 @@ def cases(draw, assertions=True, flag_choices=(0, re.MULTILINE, re.DOTALL, re.IG
     return universe, (f"(?{prefix})" if prefix else ""), text, tree
 
 
-def strings(universe: str):
-    for n in range(MAX_LENGTH + 1):
-        for chars in itertools.product(universe, repeat=n):
-            yield "".join(chars)
-
-
 def check(universe: str, prefix: str, body: str, tree) -> None:
     pattern = prefix + body
     alphabet = CharSet.from_chars(universe)
     by_tree = compile_tree(tree, alphabet, resolve=lambda node, u: node.chars & u)
     by_text = compile_dfa(pattern, alphabet)
     rx = re.compile(pattern)
-    for s in strings(universe):
+    for s in strings_upto(universe, MAX_LENGTH):
         expected = rx.fullmatch(s) is not None  # reference: re.fullmatch
         assert by_tree.accepts(s) == expected, (pattern, universe, s, "tree")
         assert by_text.accepts(s) == expected, (pattern, universe, s, "text")
@@ -140,7 +134,7 @@ def check_modes(universe: str, prefix: str, body: str) -> None:
         "search": [compile_dfa(pattern, alphabet, mode="search"),
                    compile_dfa(f"{prefix}(?s:.*)(?:{body})(?s:.*)", alphabet)],
     }
-    for s in strings(universe):
+    for s in strings_upto(universe, MAX_LENGTH):
         for mode, dfas in compiled.items():
             expected = getattr(rx, mode)(s) is not None  # reference: re.match / re.search
             assert all(d.accepts(s) == expected for d in dfas), (pattern, mode, s)
@@ -191,7 +185,7 @@ CLASSICS = [
 def test_classic_anchor_cases(universe, pattern):
     alphabet = CharSet.from_chars(universe)
     compiled = compile_dfa(pattern, alphabet)
-    for s in strings(universe):
+    for s in strings_upto(universe, MAX_LENGTH):
         assert compiled.accepts(s) == (re.fullmatch(pattern, s) is not None), s  # reference: re
     flags = re.match(r"\(\?[a-z]+\)", pattern)
     prefix = flags.group() if flags else ""
