@@ -5,10 +5,14 @@ language's exact ranking (``pfuzz.counting``): first the index of a length
 among the lengths that have strings, then a rank below the count of that
 length, then ``unrank``. Hypothesis shrinks integers toward zero, so a
 failing example shrinks by itself toward the shortest length and, within it,
-the shortlex-smallest string, with no shrinking code of our own. That is
-exact for conditions that, once true, stay true further on in shortlex order
-within a length; for other conditions (say "contains a q") it is Hypothesis's
-usual heuristic and may stop at a local minimum. The strings
+the shortlex-smallest string, with no shrinking code of our own. When the
+length shrinks, Hypothesis keeps the rank if it is still in range, so the
+result is exact when the first failing rank at the shortest failing length
+also fails at the longer lengths (e.g. "the digits after the prefix are at
+least 50": the rank 50 fails at every length). Otherwise it is Hypothesis's
+usual heuristic and may stop at a local minimum: for ``[A-Z]{2}[0-9]{2,4}``
+and "the code starts with M or later", a run can stop at "MA0000", whose
+rank (3,120,000) has no string of length 4, instead of "MA00". The strings
 come from our automata; Hypothesis's own pattern-based string strategy is
 not used.
 
