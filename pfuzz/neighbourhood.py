@@ -269,6 +269,21 @@ class _Neighbourhood:
             return None
         return (*new, *swaps)
 
+    def step_one(self, config: tuple, c: int):
+        """``step`` for distance 1, unrolled (the common case)."""
+        r0, r1, table = config
+        h = self.heads[0][c].get(r0) or self.head(c, r0, 0)
+        b = self.base[c]
+        moved = self.match.memo[b].get(r1)
+        if moved is None:
+            moved = self.match(b, r1)
+        v = moved | h[1] | h[2] | self.tables[table][b]
+        if not v and not h[3]:
+            return None
+        cut = self.cuts[0]
+        kept = cut.memo.get(v)
+        return (h[0], cut(v) if kept is None else kept, h[3])
+
     def is_accepting(self, config: tuple) -> bool:
         return bool(config[self.d] & self.final) and not config[0] & self.final
 
@@ -277,5 +292,6 @@ def build(dfa: DFA, distance: int, kinds: tuple[str, ...], edges: bool,
           cap: int = DEFAULT_STATE_CAP) -> DFA:
     """Minimal DFA of N_d(L) − L restricted to ``kinds`` (and to range edges)."""
     plan = _Neighbourhood(dfa, distance, kinds, edges)
-    return minimise(explore(plan.start(), plan.step, plan.is_accepting, plan.classes,
+    step = plan.step_one if distance == 1 else plan.step
+    return minimise(explore(plan.start(), step, plan.is_accepting, plan.classes,
                             dfa.universe, cap))

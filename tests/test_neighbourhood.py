@@ -9,6 +9,7 @@ import pytest
 
 import pfuzz
 from helpers import strings_upto
+from pfuzz import dfa as automata
 from pfuzz import neighbourhood
 from pfuzz.neighbourhood import KINDS, build, edge_characters
 
@@ -84,3 +85,14 @@ def test_edges_mode_cuts_keep_the_language(seed, monkeypatch):
     cut = build(dfa, 2, kinds, True)
     monkeypatch.setattr(neighbourhood, "dominators", lambda d, *relations: [0] * d.n_states)
     assert build(dfa, 2, kinds, True) == cut
+
+
+@pytest.mark.parametrize("edges", [False, True])
+def test_the_unrolled_distance_one_step_is_the_general_step(edges):
+    for seed in range(6):
+        dfa = pfuzz.compile(edges_pattern(random.Random(seed)), universe="[a-e]").dfa
+        plan = neighbourhood._Neighbourhood(dfa, 1, KINDS, edges)
+        built = [automata.minimise(automata.explore(plan.start(), step, plan.is_accepting,
+                                                    plan.classes, dfa.universe))
+                 for step in (plan.step, plan.step_one)]
+        assert built[0] == built[1] == build(dfa, 1, KINDS, edges)
