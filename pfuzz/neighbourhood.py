@@ -35,9 +35,10 @@ such set is cut to its maximal states (``pfuzz.simulation``, after De Wulf,
 Doyen, Henzinger & Raskin, CAV 2006). From R_d no edit is left, so there
 the preorder is language inclusion, L_q ⊆ L_p, in every mode. Below d it is
 inclusion too, except in edges mode, where what may be written depends on
-the state's transition labels and not only on its language: there the
-preorder is the simulation that also matches written characters and
-insertion points. The cut leaves the language unchanged (the configurations
+the state's transition labels and not only on its language: there R_e is
+cut by the simulation graded by the d − e edits left, which also matches
+written characters and insertion points (an edit's target one grade
+down). The cut leaves the language unchanged (the configurations
 stand for the same future) and makes far fewer configurations: 5,980
 instead of more than 262,144 for the 968-state password field of
 ``profiles/password-policy.toml`` at distance 2. R_0 is never cut (it
@@ -71,7 +72,7 @@ from __future__ import annotations
 
 from .charset import CharSet, partition
 from .dfa import DEFAULT_STATE_CAP, DFA, explore, minimise, transitions
-from .simulation import dominators
+from .simulation import beaten, simulation
 
 #: The edit kinds, as edits that turn a valid string into a reject.
 KINDS = ("delete", "insert", "replace", "swap")
@@ -167,15 +168,21 @@ class _Neighbourhood:
             self.classes, self.base = dfa.classes, list(range(k))
             written, self.insert_mask = [any_column] * k, [(1 << n) - 1] * k
         self.written = _Images(written)
-        top = _Cut(dominators(dfa))
-        low = _Cut(dominators(dfa, [w for w in written if any(w)], self.insert_mask)) \
-            if edges and distance > 1 else top
-        self.cuts = [low] * (distance - 1) + [top]
+        self.cuts = self._cuts(dfa, written, edges)
         self.heads = [[{} for _ in self.classes] for _ in range(distance)]  # per level
         self.closes: dict[int, int] = {}
         self.tables: list[tuple[int, ...]] = [(0,) * k]  # table 0: no swap pending
         self.table_number: dict[tuple, int] = {self.tables[0]: 0}
         self.swap_memo: dict[tuple, int] = {}
+
+    def _cuts(self, dfa: DFA, written: list[list[int]], edges: bool) -> list[_Cut]:
+        """The cut of each level e = 1..d: by the simulation with d − e edits left."""
+        grades = [simulation(dfa)]  # no edit left: language inclusion
+        moves = [w for w in written if any(w)]
+        for _ in range(1, self.d if edges else 1):
+            grades.append(simulation(dfa, moves, self.insert_mask, inner=grades[-1]))
+        cuts = [_Cut(beaten(sim)) for sim in grades]
+        return [cuts[min(self.d - e, len(cuts) - 1)] for e in range(1, self.d + 1)]
 
     def _edge_relations(self, dfa: DFA) -> tuple[list[list[int]], list[int]]:
         """Refine the classes by the edge characters; relations for writing only edges.

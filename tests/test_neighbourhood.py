@@ -21,7 +21,7 @@ def test_cutting_dominated_states_keeps_the_language(seed, monkeypatch):
     dfa = pfuzz.compile(pattern, universe="[ab]").dfa
     kinds = tuple(rng.sample(KINDS, rng.randint(1, 4)))
     cut = build(dfa, 2, kinds, False)
-    monkeypatch.setattr(neighbourhood, "dominators", lambda d, *relations: [0] * d.n_states)
+    monkeypatch.setattr(neighbourhood, "beaten", lambda sim: [0] * (sim.shape[0] - 1))
     assert build(dfa, 2, kinds, False) == cut
 
 
@@ -77,14 +77,15 @@ def test_edges_mode_is_its_definition(seed):
     assert {s for s in strings_upto("abcde", 4) if nm.accepts(s)} == expected, pattern
 
 
-@pytest.mark.parametrize("seed", range(4))
+@pytest.mark.parametrize("seed", range(8))
 def test_edges_mode_cuts_keep_the_language(seed, monkeypatch):
     rng = random.Random(seed)
     dfa = pfuzz.compile(edges_pattern(rng), universe="[a-e]").dfa
     kinds = tuple(rng.sample(KINDS, rng.randint(2, 4)))
-    cut = build(dfa, 2, kinds, True)
-    monkeypatch.setattr(neighbourhood, "dominators", lambda d, *relations: [0] * d.n_states)
-    assert build(dfa, 2, kinds, True) == cut
+    distance = 2 + seed % 2
+    cut = build(dfa, distance, kinds, True)
+    monkeypatch.setattr(neighbourhood, "beaten", lambda sim: [0] * (sim.shape[0] - 1))
+    assert build(dfa, distance, kinds, True) == cut
 
 
 @pytest.mark.parametrize("edges", [False, True])
