@@ -41,7 +41,7 @@ accept, as full matches of P(?s:.*) and (?s:.*)P(?s:.*) (see ``in_mode``).
 Cost: linear in the number of DFA configurations times the classes times the
 threads per configuration; bounded repeats are expanded with nested optionals
 (see ``pfuzz.nfa``) so ``[a-z0-9]{1,256}`` has two threads per configuration.
-Measured in pure Python (``python -m benchmarks compile``): about 12 µs per
+Measured in pure Python (``python -m pfuzz.benchmarks compile``): about 12 µs per
 state of the minimal DFA for ``(a|b)*a(a|b){16}`` (131,072 states in about
 1.6 s), about 20 µs per state for products of lookaheads (a four-lookahead
 password rule: 976 states in about 20 ms, of which 8 ms subset construction

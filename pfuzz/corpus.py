@@ -40,7 +40,7 @@ are computed on the way out. What stays in memory is one field's strings at a
 time: its valid strings and its rejects, each with witness and edit script
 (about 0.45 KB per reject, measured with ``tracemalloc``), which must all be
 at hand to be de-duplicated and sorted before the first is written; and a
-record's rows. Measured by ``benchmarks/corpus.py``: 49 MB peak for the demo
+record's rows. Measured by ``pfuzz/benchmarks/corpus.py``: 49 MB peak for the demo
 profile; for 967,347 cases over five fields (10^5 valid and 10^5 rejects
 each), 116 MB peak (810 MB while files were built whole), of which about
 45 MB is the interpreter, numpy and the compiled languages, and 21 s of CPU,

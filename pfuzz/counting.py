@@ -26,7 +26,7 @@ for out-degree d.
 
 Cost and limits: the tables up to length L hold states × L integers of up
 to L·log2(|universe|) bits, O(states × L²) bits in all (about 30 MB
-for a 100-state DFA at L = 1000, see ``benchmarks/sampling.py``). Long lengths are what the
+for a 100-state DFA at L = 1000, see ``pfuzz/benchmarks/sampling.py``). Long lengths are what the
 floating-point tables of ``pfuzz.bulk`` are for. Uniform sampling by length
 lives in ``pfuzz.sampler``; ``Counter.sample`` forwards there, and that
 module's docstring states the reproducibility guarantee (same seed, pattern,

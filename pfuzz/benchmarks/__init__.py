@@ -1,1 +1,1 @@
-"""pfuzz benchmarks: speed and memory, not timed tests. Run ``python -m benchmarks``."""
+"""pfuzz benchmarks: speed and memory, not timed tests. Run ``python -m pfuzz.benchmarks``."""

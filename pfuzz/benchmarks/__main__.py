@@ -1,6 +1,6 @@
 """Run every benchmark module (or those named) and print their figures.
 
-Usage: ``python -m benchmarks [compile sampling nearmiss corpus ...] [--quick]``.
+Usage: ``python -m pfuzz.benchmarks [compile sampling nearmiss corpus ...] [--quick]``.
 Each module in this package that defines ``run(quick: bool) -> list[dict]``
 is a section; rows are printed as an aligned table.
 """
@@ -38,7 +38,7 @@ def main(argv: list[str]) -> int:
     for name in names:
         if wanted and name not in wanted:
             continue
-        module = importlib.import_module(f"benchmarks.{name}")
+        module = importlib.import_module(f"{__package__}.{name}")
         if hasattr(module, "run"):
             _print_table(name, module.run(quick))
     return 0

@@ -1,8 +1,8 @@
 """Run one benchmark case in a fresh Python process and read back its figures.
 
-A fresh process makes the peak resident set size
-(``resource.getrusage(RUSAGE_SELF).ru_maxrss``, kilobytes on Linux) belong to
-that case alone; it includes the bare interpreter, which ``measure("")``
+A fresh process makes the peak resident set size (``VmHWM`` from
+``/proc/self/status``, which starts afresh at exec; ``ru_maxrss`` elsewhere)
+belong to that case alone; it includes the bare interpreter, which ``measure("")``
 reports as a baseline. CPU time (``time.process_time``) is the steadier
 figure on a shared machine; wall time is given beside it. Both clocks start
 before the case's own imports, as a user's run of the command would.
@@ -15,7 +15,7 @@ import subprocess
 import sys
 from pathlib import Path
 
-ROOT = Path(__file__).resolve().parent.parent
+ROOT = Path(__file__).resolve().parents[2]  # the project checkout
 
 _PRELUDE = """
 import json, resource, sys, time
@@ -23,8 +23,19 @@ t0, c0 = time.perf_counter(), time.process_time()
 result = {}
 """
 _REPORT = """
+def _peak_mb():
+    # VmHWM belongs to this program's own address space (it starts afresh at exec);
+    # ru_maxrss can carry over the parent's peak from before the exec on Linux.
+    try:
+        with open("/proc/self/status") as status:
+            for line in status:
+                if line.startswith("VmHWM:"):
+                    return int(line.split()[1]) / 1024
+    except OSError:
+        pass
+    return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
 result.update(wall_s=time.perf_counter() - t0, cpu_s=time.process_time() - c0,
-              peak_rss_mb=resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024)
+              peak_rss_mb=_peak_mb())
 print(json.dumps(result))
 """
 

@@ -7,7 +7,7 @@ suite, hostile variants, case flips, 1,000 near-miss rejects and 1,000 valid
 strings), against a fixture validator of ``tests/fixtures/validators`` (each
 with its deliberate bug) and against a dotted-quad check written with the
 standard library's ``ipaddress`` (put in a temporary directory). Each case runs in a fresh Python process
-(``benchmarks._child``), so its peak resident set size is its own; the
+(``pfuzz.benchmarks._child``), so its peak resident set size is its own; the
 ``imports only`` row is the interpreter with ``pfuzz.audit`` loaded, the floor
 under every other row. ``--quick`` asks 100 rejects and 100 valid strings.
 """

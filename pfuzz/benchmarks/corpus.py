@@ -1,6 +1,6 @@
 """Corpus writing: wall time, CPU time and peak memory for the demo profile and a large profile.
 
-Each case runs in a fresh Python process (``benchmarks._child``) so that its
+Each case runs in a fresh Python process (``pfuzz.benchmarks._child``) so that its
 peak resident set size belongs to that case alone; it includes the bare
 interpreter, whose own figure is the ``baseline`` row. CPU time is the
 steadier figure on a shared machine; wall time is given beside it.
