@@ -380,20 +380,9 @@ def minimise(dfa: DFA) -> DFA:
         for b in rep
     )
     accepting = frozenset(index[block_of[s]] for s in dfa.accepting)
-    start = index[block_of[0]]
+    # State 0 is the first representative, so the start block is already block 0.
     merged = DFA(dfa.universe, dfa.classes, table, accepting)
-    if start != 0:
-        merged = _reroot(merged, start)
     return _renumber(merge_classes(merged))
-
-
-def _reroot(dfa: DFA, start: int) -> DFA:
-    """The same automaton with ``start`` moved to index 0."""
-    perm = list(range(dfa.n_states))
-    perm[0], perm[start] = start, 0
-    where = {old: new for new, old in enumerate(perm)}
-    table = tuple(tuple(where[t] if t >= 0 else DEAD for t in dfa.table[old]) for old in perm)
-    return DFA(dfa.universe, dfa.classes, table, frozenset(where[s] for s in dfa.accepting))
 
 
 def merge_classes(dfa: DFA) -> DFA:
