@@ -69,10 +69,6 @@ class CharSet:
     def __len__(self) -> int:
         return sum(hi - lo + 1 for lo, hi in self.ranges)
 
-    @property
-    def size(self) -> int:
-        return len(self)
-
     def __contains__(self, char: str | int) -> bool:
         point = char if isinstance(char, int) else ord(char)
         i = bisect.bisect_right(self.ranges, (point, MAX_CODE_POINT + 1)) - 1

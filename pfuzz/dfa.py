@@ -138,9 +138,6 @@ class DFA:
     def is_empty(self) -> bool:
         return 0 not in self.live_states()
 
-    def is_complete(self) -> bool:
-        return all(t >= 0 for row in self.table for t in row)
-
 
 def transitions(dfa: DFA, live: Optional[Container[int]] = None) -> list[list[tuple[CharSet, int]]]:
     """Per state, its transitions merged per target: (characters, target), by least character.

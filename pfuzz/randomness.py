@@ -62,12 +62,6 @@ class RandomSource:
             target -= w
         raise AssertionError("unreachable")
 
-    def shuffle(self, items: list) -> None:
-        """Fisher–Yates shuffle in place, driven by exact draws."""
-        for i in range(len(items) - 1, 0, -1):
-            j = self.below(i + 1)
-            items[i], items[j] = items[j], items[i]
-
     def child_seed(self) -> int:
         """A 63-bit seed for a library that needs its own seed (faker)."""
         return self.bits(63)
