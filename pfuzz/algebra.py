@@ -82,7 +82,7 @@ def complement(dfa: DFA) -> DFA:
     def is_accepting(s):
         return s not in dfa.accepting
 
-    return minimise(explore(0, lambda s, c: step(s, c), is_accepting, dfa.classes, dfa.universe))
+    return minimise(explore(0, step, is_accepting, dfa.classes, dfa.universe))
 
 
 def concatenate(a: DFA, b: DFA, cap: int = DEFAULT_STATE_CAP) -> DFA:
