@@ -16,13 +16,14 @@ from __future__ import annotations
 import unicodedata
 from dataclasses import dataclass
 
+from .categories import CATEGORY_LETTERS
 from .errors import PatternError
 
 HEX_DIGITS = frozenset("0123456789abcdefABCDEF")
 OCTAL_DIGITS = frozenset("01234567")
 DECIMAL_DIGITS = frozenset("0123456789")
 SIMPLE_ESCAPES = {"a": 0x07, "f": 0x0C, "n": 0x0A, "r": 0x0D, "t": 0x09, "v": 0x0B, "\\": 0x5C}
-CATEGORY_ESCAPES = frozenset("dDsSwW")
+CATEGORY_ESCAPES = frozenset(CATEGORY_LETTERS)
 ANCHOR_ESCAPES = frozenset("AZ")
 BOUNDARY_ESCAPES = frozenset("bB")
 HEX_WIDTHS = {"x": 2, "u": 4, "U": 8}
