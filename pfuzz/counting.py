@@ -59,9 +59,10 @@ class Counter:
         self.min_length = algebra.min_length(dfa)
         self.max_length = algebra.max_length(dfa)
         self.finite = algebra.is_finite(dfa)
-        self.groups = [[(t, label.ranges) for label, t in row] for row in transitions(dfa, live)]
+        rows = transitions(dfa, live)
+        self.groups = [[(t, label.ranges) for label, t in row] for row in rows]
         self._pieces = [_pieces(groups) for groups in self.groups]
-        self._edges = [tuple((t, _width(rs)) for t, rs in groups) for groups in self.groups]
+        self._edges = [tuple((t, len(label)) for label, t in row) for row in rows]
         self._levels: list[list[int]] = [[1 if s in dfa.accepting else 0
                                           for s in range(dfa.n_states)]]
         self._bulk = None
@@ -273,7 +274,3 @@ def _pieces(groups) -> _Pieces:
         else:
             merged.append((lo, hi, t))
     return _Pieces(merged)
-
-
-def _width(ranges) -> int:
-    return sum(hi - lo + 1 for lo, hi in ranges)
