@@ -18,7 +18,7 @@ def resolve_universe(spec: "str | CharSet | None") -> CharSet:
         spec = DEFAULT_UNIVERSE
     if isinstance(spec, CharSet):
         chars = spec
-    elif spec in UNIVERSES:
+    elif isinstance(spec, str) and spec in UNIVERSES:
         chars = UNIVERSES[spec]
     elif isinstance(spec, str) and spec.startswith("["):
         chars = _parse_class(spec)

@@ -37,3 +37,9 @@ def test_labels():
     assert universe_label(None) == DEFAULT_UNIVERSE
     assert universe_label("[ab]") == "[ab]"
     assert universe_label(CharSet.from_chars("ab")) == "[ab]"
+
+
+@pytest.mark.parametrize("spec", [["a"], 3, b"printable"])
+def test_specifications_of_other_types(spec):
+    with pytest.raises(UniverseError):
+        resolve_universe(spec)
