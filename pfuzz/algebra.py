@@ -22,7 +22,7 @@ Constructions, each with its source:
 Cost: the products are O(states_a × states_b × classes) steps in pure Python
 (about a microsecond per table cell) before minimisation; ``distinguish`` visits
 each reachable pair at most once; the length questions are O(states × classes).
-Limits: operands must share one universe (``ValueError`` otherwise); products
+Limits: operands must share one universe (``ArgumentError`` otherwise); products
 stop with ``StateLimitError`` past the state cap.
 """
 
@@ -33,11 +33,12 @@ from typing import Callable, Optional
 
 from .charset import CharSet, partition
 from .dfa import DEAD, DEFAULT_STATE_CAP, DFA, empty, explore, minimise, universal
+from .errors import ArgumentError
 
 def _common_classes(a: DFA, b: DFA) -> tuple[list[CharSet], list[int], list[int]]:
     """Refine both partitions; return classes and, per class, a's and b's class index."""
     if a.universe != b.universe:
-        raise ValueError("languages over different universes cannot be combined")
+        raise ArgumentError("languages over different universes cannot be combined")
     classes = partition(list(a.classes) + list(b.classes), a.universe)
     return classes, [a.class_of(c.min) for c in classes], [b.class_of(c.min) for c in classes]
 

@@ -62,6 +62,7 @@ from . import dfa as automata
 from .algebra import complement
 from .charset import ALL, CharSet, partition
 from .dfa import DEAD, DEFAULT_STATE_CAP, DFA
+from .errors import ArgumentError
 from .determinise import (BLOCKED, NEWLINE, NO_OBLIGATIONS, OTHER, START, Determiniser,
                           Obligations)
 from .nfa import build
@@ -102,7 +103,7 @@ def in_mode(tree: Node, mode: str) -> Node:
         return Sequence((tree, anything))
     if mode == "search":
         return Sequence((anything, tree, anything))
-    raise ValueError(f"unknown match mode {mode!r}: use one of {', '.join(MODES)}")
+    raise ArgumentError(f"unknown match mode {mode!r}: use one of {', '.join(MODES)}")
 
 
 def compile_tree(tree: Node, universe: CharSet, cap: int = DEFAULT_STATE_CAP,

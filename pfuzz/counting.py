@@ -42,7 +42,7 @@ from typing import Iterator
 
 from . import algebra
 from .dfa import DFA, transitions
-from .errors import NotInLanguageError, RankOutOfRangeError
+from .errors import ArgumentError, NotInLanguageError, RankOutOfRangeError
 
 #: For a language without a longest string, the default ``max_length`` is
 #: this many characters above the shortest length considered.
@@ -79,7 +79,7 @@ class Counter:
     def count(self, length: int) -> int:
         """The number of accepted strings of exactly ``length`` characters."""
         if length < 0:
-            raise ValueError(f"length must be >= 0, got {length}")
+            raise ArgumentError(f"length must be >= 0, got {length}")
         if self.empty or (self.finite and length > self.max_length):
             return 0
         return self._table(length)[0]
@@ -98,7 +98,7 @@ class Counter:
         low = min_length if min_length is not None else (self.min_length or 0)
         high = max_length if max_length is not None else self.default_max_length(low)
         if low < 0 or high < 0:
-            raise ValueError("lengths must be >= 0")
+            raise ArgumentError("lengths must be >= 0")
         return low, high
 
     def counts(self, min_length: int = 0, max_length: int | None = None) -> dict[int, int]:
@@ -167,7 +167,7 @@ class Counter:
         Shards of one exhaustive run are ``enumerate(a, b, k * m, (k + 1) * m)``.
         """
         if start < 0 or (stop is not None and stop < start):
-            raise ValueError("need 0 <= start <= stop")
+            raise ArgumentError("need 0 <= start <= stop")
         low, high = self.bounds(min_length, max_length)
         position = 0
         for length in range(low, high + 1):

@@ -15,6 +15,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from .errors import ArgumentError
+
 WORD_BITS = 64
 
 
@@ -23,7 +25,7 @@ class RandomSource:
 
     def __init__(self, seed: int | None = 0):
         if seed is not None and (not isinstance(seed, int) or seed < 0):
-            raise ValueError(f"seed must be a non-negative integer, got {seed!r}")
+            raise ArgumentError(f"seed must be a non-negative integer, got {seed!r}")
         self.seed = seed
         self.numpy = np.random.Generator(np.random.PCG64(seed))
 

@@ -61,7 +61,7 @@ from math import lcm
 
 import numpy as np
 
-from .errors import EmptyLanguageError, PfuzzWarning
+from .errors import ArgumentError, EmptyLanguageError, PfuzzWarning
 from .randomness import source
 
 #: The auto method takes the bulk path from this many samples on.
@@ -79,9 +79,9 @@ def sample(counter, n: int, *, min_length=None, max_length=None, seed=None, leng
            unique=False, method="auto", progress=None) -> list[str]:
     """``n`` accepted strings; see the module docstring for plans, methods and guarantees."""
     if isinstance(n, bool) or not isinstance(n, int) or n < 0:
-        raise ValueError(f"n must be a non-negative integer, got {n!r}")
+        raise ArgumentError(f"n must be a non-negative integer, got {n!r}")
     if method not in METHODS:
-        raise ValueError(f"method must be one of {', '.join(METHODS)}, got {method!r}")
+        raise ArgumentError(f"method must be one of {', '.join(METHODS)}, got {method!r}")
     rng = source(seed)
     candidates, weights = plan(counter, min_length, max_length, lengths, method)
     if n == 0:
@@ -105,7 +105,7 @@ def plan(counter, min_length, max_length, lengths, method="auto") -> tuple[list[
         raise EmptyLanguageError("the language is empty: there is nothing to sample")
     if isinstance(lengths, str):
         if lengths not in LENGTH_MODES:
-            raise ValueError(_LENGTHS_HELP.format(lengths))
+            raise ArgumentError(_LENGTHS_HELP.format(lengths))
         return _ranged_plan(counter, min_length, max_length, lengths, method)
     if isinstance(lengths, int) and not isinstance(lengths, bool):
         lengths = [lengths]
@@ -114,7 +114,7 @@ def plan(counter, min_length, max_length, lengths, method="auto") -> tuple[list[
     elif isinstance(lengths, (list, tuple)):
         pairs = [(k, Fraction(1)) for k in lengths]
     else:
-        raise ValueError(_LENGTHS_HELP.format(lengths))
+        raise ArgumentError(_LENGTHS_HELP.format(lengths))
     return _explicit_plan(counter, pairs, method)
 
 
@@ -148,13 +148,13 @@ def _explicit_plan(counter, pairs, method):
     total: dict[int, Fraction] = {}
     for length, weight in pairs:
         if isinstance(length, bool) or not isinstance(length, int) or length < 0:
-            raise ValueError(f"a length must be a non-negative integer, got {length!r}")
+            raise ArgumentError(f"a length must be a non-negative integer, got {length!r}")
         if weight < 0:
-            raise ValueError(f"length weights must be >= 0, got {weight} for length {length}")
+            raise ArgumentError(f"length weights must be >= 0, got {weight} for length {length}")
         total[length] = total.get(length, Fraction(0)) + weight
     chosen = sorted(k for k, w in total.items() if w > 0)
     if not chosen:
-        raise ValueError("no length has a positive weight")
+        raise ArgumentError("no length has a positive weight")
     for length in chosen:
         if not _has_strings(counter, length, method):
             raise EmptyLanguageError(f"the language has no strings of length {length}")

@@ -6,8 +6,10 @@ on every string up to length 6; lengths and finiteness are checked against
 the pumping lemma (a standard fact of automata theory).
 """
 
+import pytest
 from hypothesis import given, settings
 
+import pfuzz
 from helpers import ALL_STRINGS, language, random_dfas
 from pfuzz import algebra
 from pfuzz.dfa import DFA, minimise
@@ -85,3 +87,10 @@ def accepted_lengths(d: DFA, up_to: int) -> set[int]:
             found.add(k)
         layer = {t for s in layer for t in d.table[s] if t >= 0}
     return found
+
+
+def test_operands_over_different_universes_are_refused():
+    from pfuzz.errors import ArgumentError
+    a, b = pfuzz.compile("a", "ascii").dfa, pfuzz.compile("a", "printable").dfa
+    with pytest.raises(ArgumentError, match="different universes"):
+        algebra.intersection(a, b)

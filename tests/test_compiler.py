@@ -234,3 +234,9 @@ def test_match_modes():
     assert compile_dfa(r"\d+$", digits, mode="search").accepts("x12\n")
     with pytest.raises(ValueError, match="unknown match mode"):
         compile_dfa("a", digits, mode="prefix")
+
+
+def test_an_unknown_mode_is_an_argument_error():
+    from pfuzz.errors import ArgumentError
+    with pytest.raises(ArgumentError, match="unknown match mode"):
+        compile_dfa("a", UNIVERSES["ascii"], mode="prefix")

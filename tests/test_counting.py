@@ -124,3 +124,11 @@ def test_counter_accepts_an_untrimmed_dfa():
     assert [c.count(n) for n in range(4)] == [0, 1, 1, 1]
     assert Counter(minimise(raw)).counts(0, 5) == c.counts(0, 5)
     assert list(c.enumerate(0, 3)) == ["a", "aa", "aaa"]
+
+
+def test_bad_lengths_and_slices_are_pfuzz_errors():
+    from pfuzz.errors import ArgumentError
+    c = counter(r"[a-c]{2}")
+    for call in (lambda: c.count(-1), lambda: c.counts(-1, 2), lambda: list(c.enumerate(0, 2, 3, 1))):
+        with pytest.raises(ArgumentError):
+            call()

@@ -12,7 +12,7 @@ import warnings
 import pytest
 
 import pfuzz
-from pfuzz.errors import EmptyLanguageError, PfuzzWarning
+from pfuzz.errors import ArgumentError, EmptyLanguageError, PfuzzWarning
 from pfuzz.randomness import RandomSource
 from pfuzz.sampler import BULK_MIN_SAMPLES, plan
 
@@ -123,3 +123,13 @@ def test_length_weights_too_large_for_exact_integer_draws():
     x = lang(r"[0-9]{1,20}")
     lengths = [len(s) for s in x.sample(2000, lengths="proportional", seed=6, method="bulk")]
     assert set(lengths) <= {17, 18, 19, 20} and lengths.count(20) > 1700
+
+
+@pytest.mark.parametrize("arguments", [
+    dict(n=-1), dict(n=5, lengths="uniformly"), dict(n=5, lengths={1: -1}), dict(n=5, lengths=[-1]),
+    dict(n=5, lengths={1: 0}), dict(n=5, method="fast"), dict(n=5, seed=-1),
+])
+def test_bad_arguments_are_pfuzz_errors(arguments):
+    # A library user's mistake is a pfuzz error (ArgumentError is also a ValueError).
+    with pytest.raises(ArgumentError):
+        lang(r"[0-9]{1,3}").sample(**arguments)
