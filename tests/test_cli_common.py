@@ -24,6 +24,15 @@ def test_truly_empty_language_gets_no_universe_hint():
     assert "outside the universe" not in result.stderr
 
 
+def test_empty_near_miss_language_of_a_non_empty_pattern_gets_no_universe_hint():
+    # '.*' accepts every string over printable (no newline in it), so nothing is a near miss;
+    # the pattern itself is not empty over the universe, so the hint would be false.
+    result = run("reject", ".*", "-n", "2")
+    assert result.exit_code == 2
+    assert "no near-miss rejects" in result.stderr
+    assert "outside the universe" not in result.stderr
+
+
 def test_escape_text_round_trips_through_python_literal_syntax():
     for text in ["plain", "tab\there", "new\nline", "back\\slash", "nul\x00", "zw\u200bsp"]:
         escaped = escape_text(text)

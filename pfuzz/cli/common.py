@@ -60,13 +60,19 @@ def report_errors(func):
 
 
 def _universe_hint(options: dict) -> str:
-    """When a pattern is empty only because of the universe, say so."""
+    """When a pattern is empty only because of the universe, say so.
+
+    The empty language may be a derived one (no near-miss rejects of ``.*``):
+    then the pattern itself is not empty over the universe and no hint is given.
+    """
     pattern, universe = options.get("pattern"), options.get("universe")
     if pattern is None or universe in (None, "unicode"):
         return ""
+    flags, cap = options.get("flags", 0), options.get("state_cap", DEFAULT_STATE_CAP)
     try:
-        wider = compile_language(pattern, "unicode", options.get("flags", 0),
-                                 options.get("state_cap", DEFAULT_STATE_CAP))
+        if not compile_language(pattern, universe, flags, cap).is_empty():
+            return ""
+        wider = compile_language(pattern, "unicode", flags, cap)
     except PfuzzError:
         return ""
     if wider.is_empty():
