@@ -33,6 +33,19 @@ def test_empty_near_miss_language_of_a_non_empty_pattern_gets_no_universe_hint()
     assert "outside the universe" not in result.stderr
 
 
+def test_a_count_beyond_memory_is_one_line_not_a_traceback():
+    for command in ("sample", "reject"):
+        # 10**15 int64 lengths are 8 PB, more than a 64-bit process can map (common practice:
+        # 47-bit user address space), so the allocation fails whatever the overcommit policy
+        result = run(command, "[a-z]", "-n", str(10**15))
+        assert result.exit_code == 2, command
+        assert "not enough memory" in result.stderr
+        assert "Traceback" not in result.output
+        result = run(command, "[a-z]", "-n", str(10**23))  # beyond what numpy can size
+        assert result.exit_code == 2, command
+        assert "not in the range" in result.stderr
+
+
 def test_escape_text_round_trips_through_python_literal_syntax():
     for text in ["plain", "tab\there", "new\nline", "back\\slash", "nul\x00", "zw\u200bsp"]:
         escaped = escape_text(text)

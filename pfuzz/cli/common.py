@@ -56,6 +56,10 @@ def report_errors(func):
             if (ctx.find_root().obj or {}).get("debug"):
                 raise
             fail(str(error))
+        except MemoryError:
+            if (ctx.find_root().obj or {}).get("debug"):
+                raise
+            fail("not enough memory for this request; ask for fewer strings or shorter lengths")
     return wrapper
 
 
@@ -121,6 +125,18 @@ def language_options(func):
 def compile_language(pattern: str, universe: str, flags: int, state_cap: int):
     from ..language import Language
     return Language.compile(pattern, universe, flags, state_cap=state_cap)
+
+
+#: Most strings one command may be asked for: far beyond any memory (8 bytes a string
+#: would already be 8 PiB), yet small enough that numpy can size the arrays and say
+#: that it is out of memory (which ``report_errors`` turns into one line).
+MAX_HOW_MANY = 2**50
+
+
+def how_many_option(what: str):
+    """-n N, how many strings to write; passes ``how_many``."""
+    return click.option("-n", "how_many", type=click.IntRange(min=0, max=MAX_HOW_MANY),
+                        default=10, show_default=True, help=f"How many {what} to write.")
 
 
 seed_option = click.option("--seed", type=click.IntRange(min=0), default=0, show_default=True,

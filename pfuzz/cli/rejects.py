@@ -18,16 +18,15 @@ from ..counting import UNBOUNDED_SPAN
 from ..algebra import is_finite
 from ..nearmiss import KINDS, length_range, near_miss_dfa, sample_rejects
 from .common import (EXIT_DIFFERENT, compile_language, emit, escape_text, fail, format_option,
-                     language_options, max_length_option, min_length_option, out_option,
-                     pattern_input, report_errors, seed_option)
+                     how_many_option, language_options, max_length_option, min_length_option,
+                     out_option, pattern_input, report_errors, seed_option)
 from .common import render_strings, wants_progress
 
 
 @click.command("reject")
 @pattern_input
 @language_options
-@click.option("-n", "how_many", type=click.IntRange(min=0), default=10, show_default=True,
-              help="How many rejects to write.")
+@how_many_option("rejects")
 @click.option("--distance", type=click.IntRange(min=1), default=1, show_default=True,
               help="Edit distance (optimal string alignment) from the nearest valid string.")
 @click.option("--kind", "kinds", type=click.Choice(KINDS), multiple=True,

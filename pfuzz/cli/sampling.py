@@ -17,9 +17,9 @@ import click
 from ..counting import UNBOUNDED_SPAN
 from ..errors import PfuzzWarning
 from ..sampler import METHODS
-from .common import (compile_language, emit, fail, format_option, language_options,
-                     max_length_option, min_length_option, note, out_option, pattern_input,
-                     render_strings, report_errors, seed_option, wants_progress)
+from .common import (compile_language, emit, fail, format_option, how_many_option,
+                     language_options, max_length_option, min_length_option, note, out_option,
+                     pattern_input, render_strings, report_errors, seed_option, wants_progress)
 
 
 @contextlib.contextmanager
@@ -101,8 +101,7 @@ def _render_counts(lang, table: dict[int, int], fmt: str, defaulted: bool) -> st
 @click.command("sample")
 @pattern_input
 @language_options
-@click.option("-n", "how_many", type=click.IntRange(min=0), default=10, show_default=True,
-              help="How many strings to write.")
+@how_many_option("strings")
 @seed_option
 @min_length_option
 @max_length_option
