@@ -173,7 +173,8 @@ def _field_cases(field: Field, seeds: tuple[int, int], tick) -> FieldCases:
     lang = field.language()
     if lang.is_empty():
         raise ProfileError("no string satisfies the pattern with its require, forbid and "
-                           "length keys", where=f"field '{field.name}'")
+                           f"length keys over the universe {field.universe!r}",
+                           where=f"field '{field.name}'")
     low = lang.min_length
     finite = lang.max_length is not None
     high = lang.max_length if finite else low + UNBOUNDED_SPAN

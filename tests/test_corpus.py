@@ -223,6 +223,13 @@ def test_empty_field_language_is_a_profile_error(tmp_path):
     assert not (tmp_path / "out").exists()
 
 
+def test_empty_field_language_error_names_the_universe(tmp_path):
+    # 'é' is outside the default universe (printable ASCII), so the field is empty there
+    text = '[profile]\ntitle = "e"\n[[field]]\nname = "accent"\npattern = "é"\n'
+    with pytest.raises(ProfileError, match="no string satisfies.*universe 'printable'"):
+        write_corpus(profile_file(tmp_path, text), tmp_path / "out")
+
+
 # -- exact formats ------------------------------------------------------------------
 
 HOSTILE = ',"\n\r\x00\t é\u2028'
