@@ -37,7 +37,7 @@ from pathlib import Path
 from typing import Iterator, TextIO
 
 from .errors import PfuzzError
-from .files import Checksum, atomic_writer
+from .files import Checksum, atomic_writer, current_umask
 
 #: Written by every corpus; ``--force`` replaces only a directory that holds it.
 MANIFEST_NAME = "manifest.json"
@@ -141,6 +141,9 @@ class Staging:
         self.target.parent.mkdir(parents=True, exist_ok=True)
         self.temp = Path(tempfile.mkdtemp(prefix=f".{self.target.name}.", suffix=".partial",
                                           dir=self.target.parent))
+        # mkdtemp makes the folder private (0700); the corpus is for handing to others,
+        # so it gets the permissions of an ordinary new folder.
+        os.chmod(self.temp, 0o777 & ~current_umask())
         return self
 
     def __exit__(self, kind, error, trace) -> None:

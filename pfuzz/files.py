@@ -5,7 +5,9 @@ A user's file is never half-written: an interrupted run leaves the old file
 source and target are on the same file system. The temporary sibling is
 named by ``tempfile.mkstemp`` (``.NAME.XXXXXXXX.tmp``, created with
 ``O_EXCL``), so writers running at the same time never share one; the last
-rename wins and every reader sees one whole file. Any exception, including
+rename wins and every reader sees one whole file. ``mkstemp`` makes the file
+private (0600); before the rename it gets the mode of an ordinary new file
+(0666 less the umask), since output is meant to be shared. Any exception, including
 ``KeyboardInterrupt``, unlinks the temporary file. Limit: a process killed
 outright (SIGKILL, power loss) cannot clean up; the target is still whole,
 but the hidden temporary sibling stays behind.
@@ -76,6 +78,13 @@ class _CheckedFile(io.RawIOBase):
         self._target = None
 
 
+def current_umask() -> int:
+    """The process umask (read by setting and restoring it; there is no getter)."""
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return mask
+
+
 @contextmanager
 def _temporary_sibling(path: Path) -> Iterator[BinaryIO]:
     """A new binary file beside ``path``; renamed onto ``path`` if the block succeeds."""
@@ -85,6 +94,7 @@ def _temporary_sibling(path: Path) -> Iterator[BinaryIO]:
         with os.fdopen(fd, "wb") as handle:
             yield handle
             handle.flush()
+            os.chmod(handle.fileno(), 0o666 & ~current_umask())
             os.fsync(handle.fileno())
         os.replace(temp, path)
     except BaseException:

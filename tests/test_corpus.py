@@ -358,3 +358,19 @@ def test_progress_is_reported_once_per_step(tmp_path):
     profile = load_profile(profile_file(tmp_path))
     write_corpus(profile, tmp_path / "out", progress=labels.append)
     assert len(labels) == step_count(profile) and labels[-1] == "written"
+
+
+def test_corpus_folder_and_files_get_ordinary_permissions(tmp_path):
+    # the staging folder from mkdtemp is 0700; a QA handoff folder must not stay private
+    import os
+    import stat
+
+    from pfuzz.corpus import write_corpus
+    from pfuzz.files import current_umask
+    from pfuzz.profile import load_profile
+
+    out = tmp_path / "corpus"
+    write_corpus(load_profile(profile_file(tmp_path)), out, seed=1)
+    mask = current_umask()
+    assert stat.S_IMODE(os.stat(out).st_mode) == 0o777 & ~mask
+    assert stat.S_IMODE(os.stat(out / "cases.csv").st_mode) == 0o666 & ~mask

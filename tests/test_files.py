@@ -195,3 +195,15 @@ def test_concurrent_threads_leave_one_whole_file(tmp_path):
     assert path.read_text(encoding="utf-8") in contents       # one writer's text, whole
     assert leftovers(tmp_path) == []
     assert os.listdir(tmp_path) == ["shared.txt"]
+
+
+def test_written_files_get_ordinary_permissions(tmp_path):
+    # mkstemp's private 0600 must not leak into files meant for handing over (POSIX modes).
+    import os
+    import stat
+
+    from pfuzz.files import current_umask, write_atomic
+
+    target = tmp_path / "out.txt"
+    write_atomic(target, "x\n")
+    assert stat.S_IMODE(os.stat(target).st_mode) == 0o666 & ~current_umask()
