@@ -12,12 +12,12 @@ edit neighbourhood, and writes boundary suites and paired corpora.
     True
 """
 
-from .charset import CharSet, UNIVERSES
-from .dfa import DEFAULT_STATE_CAP, DFA
-from .errors import (ArgumentError, EmptyLanguageError, GraphvizError, NotInLanguageError, PatternError,
+from pfuzz.base.charset import CharSet, UNIVERSES
+from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA
+from pfuzz.errors import (ArgumentError, EmptyLanguageError, GraphvizError, NotInLanguageError, PatternError,
                      PfuzzError, ProfileError, RankOutOfRangeError, StateLimitError, TargetError,
                      UniverseError)
-from .language import Language, compile
+from pfuzz.language import Language, compile
 
 __version__ = "0.1.0"
 

@@ -1,10 +1,10 @@
 """``Language``: the minimal DFA of a pattern plus its universe, as one value.
 
 This is the façade every upper room and every user receives. It holds an
-immutable ``DFA`` (see ``pfuzz.dfa``) and forwards each question to the room
-that owns the method: counting and sampling to ``pfuzz.counting``, near-miss
-rejects and witnesses to ``pfuzz.nearmiss``, boundary suites to
-``pfuzz.boundary``, back-translation to a pattern to ``pfuzz.elimination``.
+immutable ``DFA`` (see ``pfuzz.automata.dfa``) and forwards each question to the room
+that owns the method: counting and sampling to ``pfuzz.counting.tables``, near-miss
+rejects and witnesses to ``pfuzz.nearmiss.rejects``, boundary suites to
+``pfuzz.boundary.suite``, back-translation to a pattern to ``pfuzz.automata.elimination``.
 Derived tables (count tables, the near-miss automata) are built lazily and
 cached on the instance; the instance itself never changes, so it is cheap to
 share between threads of work.
@@ -15,9 +15,9 @@ from __future__ import annotations
 from functools import cached_property
 from typing import Iterator, Sequence
 
-from . import algebra
-from .charset import CharSet
-from .dfa import DEFAULT_STATE_CAP, DFA, universal
+from pfuzz.automata import algebra
+from pfuzz.base.charset import CharSet
+from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA, universal
 
 
 class Language:
@@ -37,8 +37,8 @@ class Language:
                 *, state_cap: int = DEFAULT_STATE_CAP, mode: str = "fullmatch") -> "Language":
         """The strings over ``universe`` that ``re.<mode>(pattern, s, flags)`` accepts,
         where ``mode`` is ``fullmatch`` (the default), ``match`` or ``search``."""
-        from .compiler import compile_dfa
-        from .universe import resolve_universe, universe_label
+        from pfuzz.automata.construction.compiler import compile_dfa
+        from pfuzz.syntax.alphabet import resolve_universe, universe_label
 
         alphabet = resolve_universe(universe)
         dfa = compile_dfa(pattern, alphabet, flags=flags, cap=state_cap, mode=mode)
@@ -117,11 +117,11 @@ class Language:
         """U*·L: the strings that end with a string of L."""
         return self._wrap(algebra.concatenate(universal(self.universe), self.dfa))
 
-    # -- counting and sampling (pfuzz.counting) -------------------------------------------
+    # -- counting and sampling (pfuzz.counting.tables) -------------------------------------------
     @property
     def counter(self):
         if "counter" not in self._derived:
-            from .counting import Counter
+            from pfuzz.counting.tables import Counter
             self._derived["counter"] = Counter(self.dfa)
         return self._derived["counter"]
 
@@ -153,36 +153,36 @@ class Language:
                   start: int = 0, stop: int | None = None) -> Iterator[str]:
         return self.counter.enumerate(min_length, max_length, start, stop)
 
-    # -- near misses (pfuzz.nearmiss) -------------------------------------------------------
+    # -- near misses (pfuzz.nearmiss.rejects) -------------------------------------------------------
     def near_misses(self, distance: int = 1, kinds: Sequence[str] | None = None) -> "Language":
         """N_d(L) − L under the OSA edit distance, as a Language."""
         key = ("near", distance, tuple(sorted(kinds)) if kinds else None)
         if key not in self._derived:
-            from .nearmiss import near_miss_dfa
+            from pfuzz.nearmiss.rejects import near_miss_dfa
             self._derived[key] = self._wrap(near_miss_dfa(self.dfa, distance, kinds))
         return self._derived[key]
 
     def explain(self, text: str):
-        from .nearmiss import explain
+        from pfuzz.nearmiss.rejects import explain
         return explain(self.dfa, text)
 
     def rejects(self, n: int, *, distance: int = 1, kinds: Sequence[str] | None = None,
                 seed=None, min_length: int | None = None, max_length: int | None = None,
                 edges: bool = False, progress=None):
         """``n`` near-miss rejects, each with its kinds, nearest witness and edit script."""
-        from .nearmiss import sample_rejects
+        from pfuzz.nearmiss.rejects import sample_rejects
         return sample_rejects(self.dfa, n, distance=distance, kinds=kinds, seed=seed,
                               min_length=min_length, max_length=max_length, edges=edges,
                               progress=progress)
 
     # -- boundary suites and back-translation ---------------------------------------------
     def boundary_cases(self, max_length: int | None = None):
-        from .boundary import suite
+        from pfuzz.boundary.suite import suite
         return suite(self.dfa, max_length=max_length)
 
     def to_pattern(self, limit: int | None = None) -> str | None:
         """A Python ``re`` pattern for this language (state elimination), or None if too large."""
-        from .elimination import pattern_of
+        from pfuzz.automata.elimination import pattern_of
         return pattern_of(self.dfa, limit=limit)
 
     def __repr__(self) -> str:

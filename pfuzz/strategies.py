@@ -1,7 +1,7 @@
 """Hypothesis strategies over pfuzz languages.
 
 Every strategy here draws plain integers and decodes them through the
-language's exact ranking (``pfuzz.counting``): first the index of a length
+language's exact ranking (``pfuzz.counting.tables``): first the index of a length
 among the lengths that have strings, then a rank below the count of that
 length, then ``unrank``. Hypothesis shrinks integers toward zero, so a
 failing example shrinks by itself toward the shortest length and, within it,
@@ -24,9 +24,9 @@ from __future__ import annotations
 
 from hypothesis import strategies as st
 
-from .charset import DEFAULT_UNIVERSE
-from .errors import EmptyLanguageError
-from .language import Language
+from pfuzz.base.charset import DEFAULT_UNIVERSE
+from pfuzz.errors import EmptyLanguageError
+from pfuzz.language import Language
 
 
 def accepted(pattern_or_language: "str | Language", *, min_length: int | None = None,
@@ -35,7 +35,7 @@ def accepted(pattern_or_language: "str | Language", *, min_length: int | None = 
     """Strings the pattern accepts (``re.fullmatch``), over ``universe``.
 
     For an unbounded language ``max_length`` defaults to the documented
-    bound of ``pfuzz.counting.UNBOUNDED_SPAN`` characters above the
+    bound of ``pfuzz.counting.tables.UNBOUNDED_SPAN`` characters above the
     shortest length considered.
     """
     language = _language(pattern_or_language, universe, flags)
@@ -72,7 +72,7 @@ def rejected(pattern_or_language: "str | Language", *, distance: int = 1,
 
     Drawn like ``accepted``, over the near-miss language
     (``Language.near_misses``; ``kinds`` restricts the edits as in
-    ``pfuzz.nearmiss``), so a failing example shrinks toward the shortest,
+    ``pfuzz.nearmiss.rejects``), so a failing example shrinks toward the shortest,
     shortlex-smallest reject. ``Language.explain`` gives a reject's nearest
     valid string and edits.
     """

@@ -11,8 +11,8 @@ from typing import Iterator
 
 from hypothesis import strategies as st
 
-from pfuzz.charset import CharSet, partition
-from pfuzz.dfa import DFA, transitions
+from pfuzz.base.charset import CharSet, partition
+from pfuzz.automata.dfa import DFA, transitions
 
 UNIVERSE = CharSet.range("a", "c")
 CLASSES = tuple(partition([CharSet.single("a"), CharSet.single("b")], UNIVERSE))

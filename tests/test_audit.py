@@ -1,4 +1,4 @@
-"""Audits of deliberately faulty validators (pfuzz.audit, pfuzz.hostile).
+"""Audits of deliberately faulty validators (pfuzz.audit.run, pfuzz.audit.hostile).
 
 The fixtures in tests/fixtures/validators each carry one classic bug; the
 audit must find it and must report nothing for the correct validators. The
@@ -14,11 +14,11 @@ from pathlib import Path
 import pytest
 
 import pfuzz
-from pfuzz.audit import CATEGORY_ORDER, Settings, audit_universe, build_cases, run_audit, stages
+from pfuzz.audit.run import CATEGORY_ORDER, Settings, audit_universe, build_cases, run_audit, stages
 from pfuzz.errors import EmptyLanguageError
-from pfuzz.hostile import HOSTILE_CHARACTERS, HOSTILE_KINDS, case_flips, hostile_variants
-from pfuzz.targets import PythonTarget, RegexTarget
-from pfuzz.witness import apply_edits
+from pfuzz.audit.hostile import HOSTILE_CHARACTERS, HOSTILE_KINDS, case_flips, hostile_variants
+from pfuzz.audit.targets import PythonTarget, RegexTarget
+from pfuzz.nearmiss.witness import apply_edits
 
 FIXTURES = str(Path(__file__).parent / "fixtures" / "validators")
 TICKET = r"[A-Z]{2}-[0-9]{4}"

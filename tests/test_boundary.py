@@ -1,4 +1,4 @@
-"""Tests for pfuzz.boundary: verdicts, transition coverage, determinism, size, cost.
+"""Tests for pfuzz.boundary.suite: verdicts, transition coverage, determinism, size, cost.
 
 Two references outside the module: Python's ``re.fullmatch`` for compiled
 patterns, and brute-force enumeration of every string over a small universe
@@ -16,12 +16,12 @@ from hypothesis import given, settings, strategies as st
 
 import pfuzz
 from helpers import flat_transitions, strings_upto
-from pfuzz import boundary
-from pfuzz.boundary import coverage, suite
-from pfuzz.counting import UNBOUNDED_SPAN
-from pfuzz.charset import CharSet
-from pfuzz.dfa import explore, from_strings, minimise
-from pfuzz.paths import Guide
+from pfuzz.boundary import suite as boundary
+from pfuzz.boundary.suite import coverage, suite
+from pfuzz.counting.tables import UNBOUNDED_SPAN
+from pfuzz.base.charset import CharSet
+from pfuzz.automata.dfa import explore, from_strings, minimise
+from pfuzz.boundary.paths import Guide
 
 #: Realistic validator patterns; every case's verdict is checked against re.fullmatch.
 PATTERNS = [

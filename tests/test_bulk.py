@@ -1,7 +1,7 @@
-"""Tests for pfuzz.bulk: float tables against exact fractions, alias laws, decoding.
+"""Tests for pfuzz.counting.bulk: float tables against exact fractions, alias laws, decoding.
 
 The reference for every probability is the exact count table of
-``pfuzz.counting`` (Python integers, compared as ``fractions.Fraction``);
+``pfuzz.counting.tables`` (Python integers, compared as ``fractions.Fraction``);
 the bounds checked are the ones the module docstring states.
 """
 
@@ -14,7 +14,7 @@ import numpy as np
 import pytest
 
 import pfuzz
-from pfuzz.bulk import FloatTables, robin_hood
+from pfuzz.counting.bulk import FloatTables, robin_hood
 
 PATTERNS = [
     r"\d{4}-(0[1-9]|1[0-2])-(0[1-9]|[12][0-9]|3[01])",

@@ -8,10 +8,10 @@ import re
 import _sre
 import pytest
 
-from pfuzz.casefold import case_sensitive_points, resolve
-from pfuzz.categories import every_code_point_text
-from pfuzz.charset import UNIVERSES, CharSet, MAX_CODE_POINT
-from pfuzz.syntax import parse
+from pfuzz.syntax.casefold import case_sensitive_points, resolve
+from pfuzz.syntax.categories import every_code_point_text
+from pfuzz.base.charset import UNIVERSES, CharSet, MAX_CODE_POINT
+from pfuzz.syntax.parser import parse
 
 UNICODE = UNIVERSES["unicode"]
 PRINTABLE = UNIVERSES["printable"]

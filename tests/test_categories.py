@@ -7,8 +7,8 @@ import time
 
 import pytest
 
-from pfuzz.categories import category, every_code_point_text
-from pfuzz.charset import ALL, CharSet, MAX_CODE_POINT
+from pfuzz.syntax.categories import category, every_code_point_text
+from pfuzz.base.charset import ALL, CharSet, MAX_CODE_POINT
 
 
 @pytest.mark.parametrize("letter", "dsw")
@@ -41,7 +41,7 @@ def test_bad_letter():
 
 def test_first_use_cost_is_small():
     category.cache_clear()
-    from pfuzz import categories
+    from pfuzz.syntax import categories
 
     categories._positive.cache_clear()
     start = time.perf_counter()

@@ -2,7 +2,7 @@
 
 from hypothesis import given, settings, strategies as st
 
-from pfuzz.charset import ALL, UNIVERSES, CharSet, partition
+from pfuzz.base.charset import ALL, UNIVERSES, CharSet, partition
 
 small_ranges = st.lists(st.tuples(st.integers(0, 40), st.integers(0, 40)), max_size=5)
 

@@ -7,9 +7,9 @@ import re
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from pfuzz.categories import category
-from pfuzz.charset import CharSet
-from pfuzz.classes import read_class, union
+from pfuzz.syntax.categories import category
+from pfuzz.base.charset import CharSet
+from pfuzz.syntax.classes import read_class, union
 from pfuzz.errors import PatternError
 
 spans = st.tuples(st.integers(0, 80), st.integers(0, 6)).map(lambda t: (t[0], t[0] + t[1]))

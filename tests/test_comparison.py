@@ -1,4 +1,4 @@
-"""Difference languages of two patterns (pfuzz.comparison), against brute force.
+"""Difference languages of two patterns (pfuzz.audit.comparison), against brute force.
 
 The reference is Python's ``re``: over a two- or three-letter universe, every
 string up to length ``N`` is tried with ``re.fullmatch`` on both patterns, and
@@ -14,8 +14,8 @@ from hypothesis import given, settings, strategies as st
 
 import pfuzz
 from helpers import strings_upto
-from pfuzz.charset import CharSet
-from pfuzz.comparison import COUNT_SPAN, compare, count_bound, lift, summarise
+from pfuzz.base.charset import CharSet
+from pfuzz.audit.comparison import COUNT_SPAN, compare, count_bound, lift, summarise
 
 N = 6
 

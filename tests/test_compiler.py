@@ -8,12 +8,12 @@ import pytest
 
 import pfuzz
 from helpers import strings_upto
-from pfuzz import algebra
-from pfuzz.charset import ALL, UNIVERSES, CharSet
-from pfuzz.compiler import compile_dfa, compile_tree
-from pfuzz.dfa import DEFAULT_STATE_CAP
+from pfuzz.automata import algebra
+from pfuzz.base.charset import ALL, UNIVERSES, CharSet
+from pfuzz.automata.construction.compiler import compile_dfa, compile_tree
+from pfuzz.automata.dfa import DEFAULT_STATE_CAP
 from pfuzz.errors import PatternError, StateLimitError
-from pfuzz.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
+from pfuzz.syntax.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
 
 PRINTABLE = UNIVERSES["printable"]
 NO_NEWLINE = CharSet.single("\n").complement()

@@ -11,11 +11,11 @@ from pathlib import Path
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from pfuzz import corpusfiles
-from pfuzz.corpus import CASE_COLUMNS, write_corpus
-from pfuzz.corpusfiles import (CorpusExistsError, csv_text, jsonl_text, read_csv, read_jsonl)
+from pfuzz.corpus import formats as corpusfiles
+from pfuzz.corpus.writer import CASE_COLUMNS, write_corpus
+from pfuzz.corpus.formats import (CorpusExistsError, csv_text, jsonl_text, read_csv, read_jsonl)
 from pfuzz.errors import ProfileError
-from pfuzz.profile import load_profile
+from pfuzz.profile.loader import load_profile
 
 SMALL = """
 [profile]
@@ -353,7 +353,7 @@ def test_interrupted_forced_write_keeps_the_old_corpus(tmp_path, monkeypatch):
 
 
 def test_progress_is_reported_once_per_step(tmp_path):
-    from pfuzz.corpus import step_count
+    from pfuzz.corpus.writer import step_count
     labels = []
     profile = load_profile(profile_file(tmp_path))
     write_corpus(profile, tmp_path / "out", progress=labels.append)
@@ -365,9 +365,9 @@ def test_corpus_folder_and_files_get_ordinary_permissions(tmp_path):
     import os
     import stat
 
-    from pfuzz.corpus import write_corpus
-    from pfuzz.files import current_umask
-    from pfuzz.profile import load_profile
+    from pfuzz.corpus.writer import write_corpus
+    from pfuzz.base.files import current_umask
+    from pfuzz.profile.loader import load_profile
 
     out = tmp_path / "corpus"
     write_corpus(load_profile(profile_file(tmp_path)), out, seed=1)

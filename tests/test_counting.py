@@ -1,4 +1,4 @@
-"""Tests for pfuzz.counting: count tables, bounds, rank/unrank, shortlex enumeration.
+"""Tests for pfuzz.counting.tables: count tables, bounds, rank/unrank, shortlex enumeration.
 
 External references (OEIS, brute force with ``re.fullmatch``) live in
 tests/external/test_counting_oeis.py and test_counting_reference.py; these
@@ -12,9 +12,9 @@ import itertools
 import pytest
 
 import pfuzz
-from pfuzz.charset import CharSet
-from pfuzz.counting import UNBOUNDED_SPAN, Counter
-from pfuzz.dfa import empty, explore, minimise
+from pfuzz.base.charset import CharSet
+from pfuzz.counting.tables import UNBOUNDED_SPAN, Counter
+from pfuzz.automata.dfa import empty, explore, minimise
 
 
 def counter(pattern: str, universe="printable") -> Counter:

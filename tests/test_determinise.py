@@ -7,9 +7,9 @@ import re
 import pytest
 
 from helpers import strings_upto
-from pfuzz.charset import CharSet
-from pfuzz.compiler import compile_dfa
-from pfuzz.determinise import NO_OBLIGATIONS, Determiniser, Interned, Obligations
+from pfuzz.base.charset import CharSet
+from pfuzz.automata.construction.compiler import compile_dfa
+from pfuzz.automata.construction.determinise import NO_OBLIGATIONS, Determiniser, Interned, Obligations
 
 LETTERS = CharSet.range("a", "c")
 

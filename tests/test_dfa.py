@@ -9,9 +9,9 @@ accept the same set of suffixes.
 from hypothesis import given, settings
 
 from helpers import ALL_STRINGS, UNIVERSE, language, random_dfas
-from pfuzz import dfa as automata
-from pfuzz.charset import CharSet, partition
-from pfuzz.dfa import DEAD, explore, minimise
+from pfuzz.automata import dfa as automata
+from pfuzz.base.charset import CharSet, partition
+from pfuzz.automata.dfa import DEAD, explore, minimise
 
 
 def suffixes(d, state: int) -> frozenset[str]:

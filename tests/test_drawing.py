@@ -1,4 +1,4 @@
-"""DOT text of a minimal DFA (pfuzz.drawing).
+"""DOT text of a minimal DFA (pfuzz.automata.drawing).
 
 Edge labels are ``re`` class texts; each is checked with Python's ``re``
 (the reference matcher) against the characters of the transition it labels.
@@ -10,7 +10,7 @@ import re
 
 import pfuzz
 from helpers import flat_transitions
-from pfuzz.drawing import to_dot
+from pfuzz.automata.drawing import to_dot
 
 EDGE = re.compile(r'^  s(\d+) -> s(\d+) \[label="((?:[^"\\]|\\.)*)"\];$', re.M)
 NODE = re.compile(r'^  s(\d+) \[label="\d+"(, shape=doublecircle)?\];$', re.M)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-from pfuzz.editscript import Edit, Explanation, apply_edits
+from pfuzz.nearmiss.edits import Edit, Explanation, apply_edits
 
 
 def test_edits_print_readably():

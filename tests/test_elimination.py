@@ -1,4 +1,4 @@
-"""State elimination back to a pattern (pfuzz.elimination).
+"""State elimination back to a pattern (pfuzz.automata.elimination).
 
 The reference matcher is Python's ``re``: every pattern pfuzz writes is
 compiled by ``re`` and checked with ``re.fullmatch`` against the DFA on every
@@ -18,10 +18,10 @@ import pytest
 from hypothesis import given, settings, strategies as st
 
 from helpers import strings_upto
-from pfuzz.charset import UNIVERSES, CharSet
-from pfuzz.algebra import concatenate, difference, distinguish
-from pfuzz.dfa import DFA, explore, from_strings, minimise, universal
-from pfuzz.elimination import DEFAULT_LIMIT, NOTHING_TEXT, pattern_of
+from pfuzz.base.charset import UNIVERSES, CharSet
+from pfuzz.automata.algebra import concatenate, difference, distinguish
+from pfuzz.automata.dfa import DFA, explore, from_strings, minimise, universal
+from pfuzz.automata.elimination import DEFAULT_LIMIT, NOTHING_TEXT, pattern_of
 
 PRINTABLE = UNIVERSES["printable"]
 

@@ -8,7 +8,7 @@ import string
 import pytest
 
 from pfuzz.errors import PatternError
-from pfuzz.escapes import read_escape
+from pfuzz.syntax.escapes import read_escape
 
 
 def decoded(escape: str, in_class: bool = False) -> int:

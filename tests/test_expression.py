@@ -1,4 +1,4 @@
-"""The simplifying expression algebra and its re text (pfuzz.expression).
+"""The simplifying expression algebra and its re text (pfuzz.automata.expression).
 
 Texts are checked against Python's ``re``: each escaped character and class
 is compiled by ``re`` and tried on the characters around it.
@@ -10,8 +10,8 @@ import re
 
 import pytest
 
-from pfuzz.charset import UNIVERSES, CharSet
-from pfuzz.expression import Algebra, class_text, escape_char
+from pfuzz.base.charset import UNIVERSES, CharSet
+from pfuzz.automata.expression import Algebra, class_text, escape_char
 
 PRINTABLE = UNIVERSES["printable"]
 

@@ -12,8 +12,8 @@ from pathlib import Path
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from pfuzz import files
-from pfuzz.files import BUFFER_SIZE, Checksum, atomic_writer, sha256_of, write_atomic
+from pfuzz.base import files
+from pfuzz.base.files import BUFFER_SIZE, Checksum, atomic_writer, sha256_of, write_atomic
 
 OLD = "old contents\n"
 
@@ -86,7 +86,7 @@ def test_unencodable_text_keeps_the_old_file(old_file):
 
 _KILLED_WRITER = """
 import os, signal, sys
-from pfuzz.files import BUFFER_SIZE, atomic_writer
+from pfuzz.base.files import BUFFER_SIZE, atomic_writer
 with atomic_writer(sys.argv[1]) as out:
     out.write("x" * (2 * BUFFER_SIZE))
     out.flush()
@@ -202,7 +202,7 @@ def test_written_files_get_ordinary_permissions(tmp_path):
     import os
     import stat
 
-    from pfuzz.files import current_umask, write_atomic
+    from pfuzz.base.files import current_umask, write_atomic
 
     target = tmp_path / "out.txt"
     write_atomic(target, "x\n")

@@ -13,10 +13,10 @@ from collections import deque
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from pfuzz.charset import UNIVERSES, CharSet
-from pfuzz.compiler import compile_tree
-from pfuzz.dfa import DEAD
-from pfuzz.tree import ANCHOR_KINDS, Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
+from pfuzz.base.charset import UNIVERSES, CharSet
+from pfuzz.automata.construction.compiler import compile_tree
+from pfuzz.automata.dfa import DEAD
+from pfuzz.syntax.tree import ANCHOR_KINDS, Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
 
 UNIVERSE = CharSet.from_chars("ab\n")
 

@@ -8,10 +8,10 @@ import pytest
 from scipy.stats import chisquare
 
 import pfuzz
-from pfuzz.counting import Counter
+from pfuzz.counting.tables import Counter
 from pfuzz.errors import EmptyLanguageError, PfuzzError
-from pfuzz.nearmiss import KINDS, kinds_of, near_miss_dfa, sample_rejects
-from pfuzz.witness import apply_edits
+from pfuzz.nearmiss.rejects import KINDS, kinds_of, near_miss_dfa, sample_rejects
+from pfuzz.nearmiss.witness import apply_edits
 
 
 def counts(dfa, high):

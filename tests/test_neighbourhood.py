@@ -9,9 +9,9 @@ import pytest
 
 import pfuzz
 from helpers import strings_upto
-from pfuzz import dfa as automata
-from pfuzz import neighbourhood
-from pfuzz.neighbourhood import KINDS, build, edge_characters
+from pfuzz.automata import dfa as automata
+from pfuzz.nearmiss import neighbourhood
+from pfuzz.nearmiss.neighbourhood import KINDS, build, edge_characters
 
 
 @pytest.mark.parametrize("seed", range(6))

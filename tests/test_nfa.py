@@ -7,10 +7,10 @@ import itertools
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from pfuzz.charset import CharSet
+from pfuzz.base.charset import CharSet
 from pfuzz.errors import StateLimitError
-from pfuzz.nfa import CHAR, accepts, build, estimate_states, _closure
-from pfuzz.tree import Alternation, Anchor, Chars, Repeat, Sequence
+from pfuzz.automata.nfa import CHAR, accepts, build, estimate_states, _closure
+from pfuzz.syntax.tree import Alternation, Anchor, Chars, Repeat, Sequence
 
 # Symbols are class indexes 0, 1, 2; a Chars node over code points 0..2 is labelled by them.
 SYMBOLS = (0, 1, 2)

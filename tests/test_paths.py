@@ -1,4 +1,4 @@
-"""Tests for pfuzz.paths, against brute-force enumeration over a 3-letter universe.
+"""Tests for pfuzz.boundary.paths, against brute-force enumeration over a 3-letter universe.
 
 The automata are built from Python predicates (``from_strings`` of every string
 up to length 6 that the predicate accepts), so the reference is the predicate
@@ -12,9 +12,9 @@ import itertools
 import pytest
 
 from helpers import strings_upto
-from pfuzz.charset import CharSet
-from pfuzz.dfa import explore, from_strings, minimise
-from pfuzz.paths import Guide, Lengths
+from pfuzz.base.charset import CharSet
+from pfuzz.automata.dfa import explore, from_strings, minimise
+from pfuzz.boundary.paths import Guide, Lengths
 
 LETTERS = "abc"
 UNIVERSE = CharSet.range("a", "c")

@@ -3,7 +3,7 @@
 import pytest
 from scipy.stats import chisquare
 
-from pfuzz.randomness import RandomSource, source
+from pfuzz.base.randomness import RandomSource, source
 
 
 def test_same_seed_same_stream():

@@ -1,4 +1,4 @@
-"""Tests for pfuzz.sampler: length plans, methods, distinct strings, reproducibility, errors.
+"""Tests for pfuzz.counting.sampler: length plans, methods, distinct strings, reproducibility, errors.
 
 Uniformity itself is tested with chi-squared statistics in
 tests/external/test_sampling_uniformity.py; acceptance by ``re.fullmatch``
@@ -13,8 +13,8 @@ import pytest
 
 import pfuzz
 from pfuzz.errors import ArgumentError, EmptyLanguageError, PfuzzWarning
-from pfuzz.randomness import RandomSource
-from pfuzz.sampler import BULK_MIN_SAMPLES, plan
+from pfuzz.base.randomness import RandomSource
+from pfuzz.counting.sampler import BULK_MIN_SAMPLES, plan
 
 
 def lang(pattern: str, universe: str = "printable") -> pfuzz.Language:

@@ -5,9 +5,9 @@ from __future__ import annotations
 import pytest
 
 import pfuzz
-from pfuzz import dfa as automata
-from pfuzz.algebra import difference
-from pfuzz.simulation import beaten, simulation
+from pfuzz.automata import dfa as automata
+from pfuzz.automata.algebra import difference
+from pfuzz.automata.simulation import beaten, simulation
 
 
 def dominators(dfa, *relations):

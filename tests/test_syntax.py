@@ -8,11 +8,11 @@ import time
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from pfuzz.categories import category
-from pfuzz.charset import ALL, CharSet
+from pfuzz.syntax.categories import category
+from pfuzz.base.charset import ALL, CharSet
 from pfuzz.errors import PatternError
-from pfuzz.syntax import parse
-from pfuzz.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
+from pfuzz.syntax.parser import parse
+from pfuzz.syntax.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
 
 I, A, S = int(re.I), int(re.A), int(re.S)
 

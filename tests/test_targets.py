@@ -1,4 +1,4 @@
-"""Validator targets (pfuzz.targets): Python functions, commands, regexes.
+"""Validator targets (pfuzz.audit.targets): Python functions, commands, regexes.
 
 Command validators are small Python scripts in tests/fixtures/validators run
 with ``sys.executable``; the faulty ones crash, hang, answer short or answer
@@ -19,7 +19,7 @@ import pytest
 
 import pfuzz
 from pfuzz.errors import TargetError
-from pfuzz.targets import CommandTarget, PythonTarget, RegexTarget, Verdict, load_function
+from pfuzz.audit.targets import CommandTarget, PythonTarget, RegexTarget, Verdict, load_function
 
 FIXTURES = Path(__file__).parent / "fixtures" / "validators"
 TEXTS = ["AB-1234", "ab-1234", "AB-12345", "AB-1234\n", "\u00e9", "", "ZZ-0000"]

@@ -4,10 +4,10 @@ from __future__ import annotations
 
 import pytest
 
-from pfuzz.categories import category
-from pfuzz.charset import DEFAULT_UNIVERSE, UNIVERSES, CharSet
+from pfuzz.syntax.categories import category
+from pfuzz.base.charset import DEFAULT_UNIVERSE, UNIVERSES, CharSet
 from pfuzz.errors import UniverseError
-from pfuzz.universe import resolve_universe, universe_label
+from pfuzz.syntax.alphabet import resolve_universe, universe_label
 
 
 def test_presets_and_default():

@@ -8,8 +8,8 @@ import pytest
 
 import pfuzz
 from pfuzz.errors import EmptyLanguageError
-from pfuzz.editscript import Edit, Explanation, apply_edits
-from pfuzz.witness import corrector, explain, nearest
+from pfuzz.nearmiss.edits import Edit, Explanation, apply_edits
+from pfuzz.nearmiss.witness import corrector, explain, nearest
 
 PLATE = r"[A-Z]{2}[0-9]{4}"
 

@@ -2,13 +2,13 @@
 
 Each case is what ``pfuzz audit --pattern P --target module:function`` does,
 made through the library (``pfuzz.compile`` over the default universe, then
-``pfuzz.audit.run_audit`` with the default ``Settings``: the whole boundary
+``pfuzz.audit.run.run_audit`` with the default ``Settings``: the whole boundary
 suite, hostile variants, case flips, 1,000 near-miss rejects and 1,000 valid
 strings), against a fixture validator of ``tests/fixtures/validators`` (each
 with its deliberate bug) and against a dotted-quad check written with the
 standard library's ``ipaddress`` (put in a temporary directory). Each case runs in a fresh Python process
 (``pfuzz.benchmarks._child``), so its peak resident set size is its own; the
-``imports only`` row is the interpreter with ``pfuzz.audit`` loaded, the floor
+``imports only`` row is the interpreter with ``pfuzz.audit.run`` loaded, the floor
 under every other row. ``--quick`` asks 100 rejects and 100 valid strings.
 """
 
@@ -42,13 +42,13 @@ def dotted_quad(text):
 """
 
 _IMPORTS = """
-import pfuzz.audit
+import pfuzz.audit.run
 """
 
 _AUDIT = """
 from pfuzz import compile
-from pfuzz.audit import Settings, run_audit
-from pfuzz.targets import PythonTarget
+from pfuzz.audit.run import Settings, run_audit
+from pfuzz.audit.targets import PythonTarget
 pattern, function, directory, size = sys.argv[1:5]
 settings = Settings() if size == "default" else Settings(valid=int(size), rejects=int(size))
 report = run_audit(compile(pattern), PythonTarget(function, directory=directory), settings)

@@ -1,6 +1,6 @@
 """Boundary suites: time and size for realistic patterns and for DFAs of 100 to 2,000+ states.
 
-Each pattern is compiled first (not timed); then ``pfuzz.boundary.suite`` is
+Each pattern is compiled first (not timed); then ``pfuzz.boundary.suite.suite`` is
 timed as the best of a few runs in CPU time (``time.process_time``). Size is
 given as the number of cases; how many are range-edge cases and how many
 transition-cover strings remain (beside the number of live transitions: at
@@ -18,9 +18,9 @@ import time
 from collections import Counter
 
 from pfuzz import compile as compile_language
-from pfuzz.boundary import suite
-from pfuzz.paths import Guide
-from pfuzz.profile import load_profile
+from pfuzz.boundary.suite import suite
+from pfuzz.boundary.paths import Guide
+from pfuzz.profile.loader import load_profile
 
 from ._child import ROOT
 

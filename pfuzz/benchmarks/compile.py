@@ -10,8 +10,8 @@ from __future__ import annotations
 
 import time
 
-from pfuzz.compiler import compile_dfa
-from pfuzz.universe import resolve_universe
+from pfuzz.automata.construction.compiler import compile_dfa
+from pfuzz.syntax.alphabet import resolve_universe
 
 PASSWORD = r"^(?=.*\d)(?=.*[a-z])(?=.*[A-Z])(?=.*[!#$%&*+\-.?@^_~])(?=.{8,64}$).*$"
 PASSWORD_5 = r"^(?=.*\d)(?=.*[a-z])(?=.*[A-Z])(?=.*[!#$%&*+\-.?@^_~])(?!.* )(?=.{8,64}$).*$"

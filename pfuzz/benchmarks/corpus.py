@@ -36,7 +36,7 @@ def large_profile(n: int) -> str:
 
 
 _CORPUS = """
-from pfuzz.corpus import write_corpus
+from pfuzz.corpus.writer import write_corpus
 summary = write_corpus(sys.argv[1], sys.argv[2], seed=0)
 result.update(bytes=sum(f["bytes"] for f in summary.files.values()), cases=summary.cases)
 """

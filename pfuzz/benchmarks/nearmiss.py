@@ -19,10 +19,10 @@ from __future__ import annotations
 
 import time
 
-from pfuzz import nearmiss
-from pfuzz.compiler import compile_dfa
-from pfuzz.universe import resolve_universe
-from pfuzz.witness import nearest
+from pfuzz.nearmiss import rejects as nearmiss
+from pfuzz.automata.construction.compiler import compile_dfa
+from pfuzz.syntax.alphabet import resolve_universe
+from pfuzz.nearmiss.witness import nearest
 
 DATE = (r"(?:(?:[0-9]{2}(?:0[48]|[2468][048]|[13579][26])|(?:0[48]|[2468][048]|[13579][26])00)"
         r"-02-29|[0-9]{4}-(?:(?:0[13578]|1[02])-(?:0[1-9]|[12][0-9]|3[01])"

@@ -17,7 +17,7 @@ import time
 import tracemalloc
 
 import pfuzz
-from pfuzz.bulk import FloatTables
+from pfuzz.counting.bulk import FloatTables
 
 PATTERNS = [
     r"[A-Z]{2}[0-9]{4}",

@@ -8,10 +8,10 @@ from pathlib import Path
 
 import click
 
-from ..audit import (DEFAULT_REJECT_UNIVERSE, DEFAULT_REJECTS, DEFAULT_VALID, EDIT_KINDS,
+from pfuzz.audit.run import (DEFAULT_REJECT_UNIVERSE, DEFAULT_REJECTS, DEFAULT_VALID, EDIT_KINDS,
                      AuditReport, Settings, run_audit, stages)
-from ..errors import TargetError
-from ..targets import DEFAULT_TIMEOUT, MODES, CommandTarget, PythonTarget, RegexTarget
+from pfuzz.errors import TargetError
+from pfuzz.audit.targets import DEFAULT_TIMEOUT, MODES, CommandTarget, PythonTarget, RegexTarget
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
                      language_options, max_length_option, min_length_option, out_option,
                      read_pattern_file, report_errors, seed_option)
@@ -129,7 +129,7 @@ def _specification(profile, pattern, pattern_file, field, universe, flags, state
     for name in ("universe", "ignore_case"):
         if ctx.get_parameter_source(name) is not click.core.ParameterSource.DEFAULT:
             fail(f"--{name.replace('_', '-')} applies to --pattern; a profile sets each field's own")
-    from ..profile import load_profile
+    from pfuzz.profile.loader import load_profile
 
     loaded = load_profile(profile)
     chosen = _field(loaded, field, profile)

@@ -17,10 +17,10 @@ from typing import NoReturn
 
 import click
 
-from ..charset import DEFAULT_UNIVERSE, UNIVERSES
-from ..dfa import DEFAULT_STATE_CAP
-from ..errors import EmptyLanguageError, PatternError, PfuzzError
-from ..files import write_atomic
+from pfuzz.base.charset import DEFAULT_UNIVERSE, UNIVERSES
+from pfuzz.automata.dfa import DEFAULT_STATE_CAP
+from pfuzz.errors import EmptyLanguageError, PatternError, PfuzzError
+from pfuzz.base.files import write_atomic
 
 EXIT_OK, EXIT_DIFFERENT, EXIT_USAGE = 0, 1, 2
 
@@ -123,7 +123,7 @@ def language_options(func):
 
 
 def compile_language(pattern: str, universe: str, flags: int, state_cap: int):
-    from ..language import Language
+    from pfuzz.language import Language
     return Language.compile(pattern, universe, flags, state_cap=state_cap)
 
 

@@ -1,4 +1,4 @@
-"""``pfuzz corpus``: a profile in, a folder of paired QA data out (``pfuzz.corpus``)."""
+"""``pfuzz corpus``: a profile in, a folder of paired QA data out (``pfuzz.corpus.writer``)."""
 
 from __future__ import annotations
 
@@ -7,9 +7,9 @@ from pathlib import Path
 
 import click
 
-from ..corpus import step_count, write_corpus
-from ..errors import ProfileError
-from ..profile import load_profile
+from pfuzz.corpus.writer import step_count, write_corpus
+from pfuzz.errors import ProfileError
+from pfuzz.profile.loader import load_profile
 from .common import fail, out_option, report_errors, seed_option
 
 

@@ -8,7 +8,7 @@ from pathlib import Path
 
 import click
 
-from ..comparison import DEFAULT_EXAMPLES, Comparison, Side, compare
+from pfuzz.audit.comparison import DEFAULT_EXAMPLES, Comparison, Side, compare
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, escape_text, fail,
                      format_option, language_options, max_length_option, out_option,
                      read_pattern_file, report_errors)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import click
 
-from ..drawing import to_dot, to_svg
+from pfuzz.automata.drawing import to_dot, to_svg
 from .common import compile_language, emit, language_options, out_option, pattern_input, report_errors
 
 

@@ -1,6 +1,6 @@
 """``pfuzz reject`` and ``pfuzz explain``: near-miss rejects, and why a text is rejected.
 
-Thin skins over ``pfuzz.nearmiss.sample_rejects`` and ``pfuzz.nearmiss.explain``.
+Thin skins over ``pfuzz.nearmiss.rejects.sample_rejects`` and ``pfuzz.nearmiss.rejects.explain``.
 Standard output carries data only; notes and the progress bar go to
 standard error. ``explain`` exits 0 when the pattern accepts the text and 1
 when it rejects it, like ``grep``.
@@ -14,9 +14,9 @@ import sys
 
 import click
 
-from ..counting import UNBOUNDED_SPAN
-from ..algebra import is_finite
-from ..nearmiss import KINDS, length_range, near_miss_dfa, sample_rejects
+from pfuzz.counting.tables import UNBOUNDED_SPAN
+from pfuzz.automata.algebra import is_finite
+from pfuzz.nearmiss.rejects import KINDS, length_range, near_miss_dfa, sample_rejects
 from .common import (EXIT_DIFFERENT, compile_language, emit, escape_text, fail, format_option,
                      how_many_option, language_options, max_length_option, min_length_option,
                      out_option, pattern_input, report_errors, seed_option)

@@ -14,9 +14,9 @@ import warnings
 
 import click
 
-from ..counting import UNBOUNDED_SPAN
-from ..errors import PfuzzWarning
-from ..sampler import METHODS
+from pfuzz.counting.tables import UNBOUNDED_SPAN
+from pfuzz.errors import PfuzzWarning
+from pfuzz.counting.sampler import METHODS
 from .common import (compile_language, emit, fail, format_option, how_many_option,
                      language_options, max_length_option, min_length_option, note, out_option,
                      pattern_input, render_strings, report_errors, seed_option, wants_progress)

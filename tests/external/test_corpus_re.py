@@ -16,11 +16,11 @@ from pathlib import Path
 
 import pytest
 
-from pfuzz.corpusfiles import read_csv, read_jsonl
-from pfuzz.corpus import write_corpus
-from pfuzz.profile import load_profile
-from pfuzz.randomness import RandomSource
-from pfuzz.universe import resolve_universe
+from pfuzz.corpus.formats import read_csv, read_jsonl
+from pfuzz.corpus.writer import write_corpus
+from pfuzz.profile.loader import load_profile
+from pfuzz.base.randomness import RandomSource
+from pfuzz.syntax.alphabet import resolve_universe
 
 DEMO = Path(__file__).resolve().parents[2] / "profiles" / "demo.toml"
 
@@ -134,7 +134,7 @@ def test_cases_table_verdicts_match_re(demo):
 
 
 def test_context_columns_are_faker_values_from_the_documented_seed(demo):
-    """Source: faker itself, seeded as pfuzz.corpus documents (child seeds of one
+    """Source: faker itself, seeded as pfuzz.corpus.writer documents (child seeds of one
     RandomSource: two per field, then record values, record rejects, one per context column)."""
     from faker import Faker
 

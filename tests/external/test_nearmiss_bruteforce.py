@@ -28,9 +28,9 @@ import pytest
 
 import pfuzz
 from helpers import strings_upto
-from pfuzz.counting import Counter
-from pfuzz.nearmiss import KINDS, near_miss_dfa, sample_rejects
-from pfuzz.witness import apply_edits
+from pfuzz.counting.tables import Counter
+from pfuzz.nearmiss.rejects import KINDS, near_miss_dfa, sample_rejects
+from pfuzz.nearmiss.witness import apply_edits
 
 INVERSE = {"delete": "insert", "insert": "delete", "replace": "replace", "swap": "swap"}
 

@@ -28,7 +28,7 @@ import pytest
 from faker import Faker
 
 import pfuzz
-from pfuzz.profile import load_profile
+from pfuzz.profile.loader import load_profile
 
 PROFILES = Path(__file__).resolve().parents[2] / "profiles"
 HEX = set(string.hexdigits)  # 0-9, a-f, A-F

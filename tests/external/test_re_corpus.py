@@ -40,7 +40,7 @@ import pfuzz
 CORPUS_PATH = Path(__file__).resolve().parents[1] / "data" / "validator_patterns.toml"
 
 #: The universes as the project's specification (issue 2) defines them, written
-#: out here independently of pfuzz.charset so that the tests also check them.
+#: out here independently of pfuzz.base.charset so that the tests also check them.
 UNIVERSE_RANGES = {
     "printable": ((0x20, 0x7E),),
     "ascii": ((0x00, 0x7F),),

@@ -17,9 +17,9 @@ import pytest
 from hypothesis import given, settings, strategies as st
 
 from helpers import strings_upto
-from pfuzz.charset import ALL, CharSet
-from pfuzz.compiler import compile_dfa, compile_tree
-from pfuzz.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
+from pfuzz.base.charset import ALL, CharSet
+from pfuzz.automata.construction.compiler import compile_dfa, compile_tree
+from pfuzz.syntax.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
 
 MAX_LENGTH = 6
 UNIVERSES = ["ab", "a\n", "ab\n", "aA\n", "aAb", "aB\n"]

@@ -3,7 +3,7 @@
 Reference matcher: Python's ``re`` (``re.fullmatch`` with the same flags).
 The tree is read by a small set-of-positions interpreter written here from
 the definitions in pfuzz/tree.py (no automaton involved), so a disagreement
-points at the parser (or at pfuzz.casefold), not at the compiler.
+points at the parser (or at pfuzz.syntax.casefold), not at the compiler.
 """
 
 from __future__ import annotations
@@ -15,10 +15,10 @@ import re
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from pfuzz.casefold import resolve
-from pfuzz.charset import CharSet
-from pfuzz.syntax import parse
-from pfuzz.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
+from pfuzz.syntax.casefold import resolve
+from pfuzz.base.charset import CharSet
+from pfuzz.syntax.parser import parse
+from pfuzz.syntax.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
 
 ALPHABET = "aAbk\n \u212a"  # includes K's case partner U+212A KELVIN SIGN and a space for verbose mode
 UNIVERSE = CharSet.from_chars(ALPHABET)
