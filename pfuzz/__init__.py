@@ -1,7 +1,7 @@
 """pfuzz: valid and near-miss test data for input validators, from patterns.
 
 A pattern (Python ``re`` syntax, the regular subset) is compiled to its
-minimal DFA over a universe of characters. From that automaton pfuzz counts
+minimal DFA over an alphabet of characters. From that automaton pfuzz counts
 the accepted strings of each length exactly, samples them uniformly by
 length, builds near-miss rejects from the complement intersected with the
 edit neighbourhood, and writes boundary suites and paired corpora.
@@ -12,11 +12,11 @@ edit neighbourhood, and writes boundary suites and paired corpora.
     True
 """
 
-from pfuzz.base.charset import CharSet, UNIVERSES
+from pfuzz.base.charset import CharSet, ALPHABETS
 from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA
 from pfuzz.errors import (ArgumentError, EmptyLanguageError, GraphvizError, NotInLanguageError, PatternError,
                      PfuzzError, ProfileError, RankOutOfRangeError, StateLimitError, TargetError,
-                     UniverseError)
+                     AlphabetError)
 from pfuzz.language import Language, compile
 
 __version__ = "0.1.0"
@@ -24,6 +24,6 @@ __version__ = "0.1.0"
 __all__ = [
     "ArgumentError", "CharSet", "DFA", "DEFAULT_STATE_CAP", "EmptyLanguageError", "GraphvizError",
     "Language", "NotInLanguageError", "PatternError", "PfuzzError", "ProfileError",
-    "RankOutOfRangeError", "StateLimitError", "TargetError", "UNIVERSES", "UniverseError", "compile",
+    "RankOutOfRangeError", "StateLimitError", "TargetError", "ALPHABETS", "AlphabetError", "compile",
     "__version__",
 ]

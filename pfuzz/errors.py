@@ -37,8 +37,8 @@ class StateLimitError(PfuzzError):
     """The automaton would exceed the configured state cap."""
 
 
-class UniverseError(PfuzzError, ValueError):
-    """A universe specification pfuzz does not understand."""
+class AlphabetError(PfuzzError, ValueError):
+    """An alphabet specification pfuzz does not understand."""
 
 
 class EmptyLanguageError(PfuzzError, ValueError):

@@ -1,4 +1,4 @@
-"""``Language``: the minimal DFA of a pattern plus its universe, as one value.
+"""``Language``: the minimal DFA of a pattern plus its alphabet, as one value.
 
 This is the façade every upper room and every user receives. It holds an
 immutable ``DFA`` (see ``pfuzz.automata.dfa``) and forwards each question to the room
@@ -21,36 +21,36 @@ from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA, universal
 
 
 class Language:
-    """A regular language over a universe, backed by its minimal DFA."""
+    """A regular language over an alphabet, backed by its minimal DFA."""
 
     def __init__(self, dfa: DFA, *, pattern: str | None = None, flags: int = 0,
-                 universe_name: str | None = None):
+                 alphabet_name: str | None = None):
         self.dfa = dfa
         self.pattern = pattern
         self.flags = flags
-        self.universe_name = universe_name or dfa.universe.describe()
+        self.alphabet_name = alphabet_name or dfa.alphabet.describe()
         self._derived: dict = {}
 
     # -- construction ------------------------------------------------------------
     @classmethod
-    def compile(cls, pattern: str, universe: "str | CharSet" = "printable", flags: int = 0,
+    def compile(cls, pattern: str, alphabet: "str | CharSet" = "printable", flags: int = 0,
                 *, state_cap: int = DEFAULT_STATE_CAP, mode: str = "fullmatch") -> "Language":
-        """The strings over ``universe`` that ``re.<mode>(pattern, s, flags)`` accepts,
+        """The strings over ``alphabet`` that ``re.<mode>(pattern, s, flags)`` accepts,
         where ``mode`` is ``fullmatch`` (the default), ``match`` or ``search``."""
         from pfuzz.automata.construction.compiler import compile_dfa
-        from pfuzz.syntax.alphabet import resolve_universe, universe_label
+        from pfuzz.syntax.alphabet import resolve_alphabet, alphabet_label
 
-        alphabet = resolve_universe(universe)
-        dfa = compile_dfa(pattern, alphabet, flags=flags, cap=state_cap, mode=mode)
-        return cls(dfa, pattern=pattern, flags=flags, universe_name=universe_label(universe))
+        charset = resolve_alphabet(alphabet)
+        dfa = compile_dfa(pattern, charset, flags=flags, cap=state_cap, mode=mode)
+        return cls(dfa, pattern=pattern, flags=flags, alphabet_name=alphabet_label(alphabet))
 
     def _wrap(self, dfa: DFA, pattern: str | None = None) -> "Language":
-        return Language(dfa, pattern=pattern, universe_name=self.universe_name)
+        return Language(dfa, pattern=pattern, alphabet_name=self.alphabet_name)
 
     # -- basic facts -----------------------------------------------------------------
     @property
-    def universe(self) -> CharSet:
-        return self.dfa.universe
+    def alphabet(self) -> CharSet:
+        return self.dfa.alphabet
 
     @property
     def states(self) -> int:
@@ -115,7 +115,7 @@ class Language:
 
     def with_any_prefix(self) -> "Language":
         """U*·L: the strings that end with a string of L."""
-        return self._wrap(algebra.concatenate(universal(self.universe), self.dfa))
+        return self._wrap(algebra.concatenate(universal(self.alphabet), self.dfa))
 
     # -- counting and sampling (pfuzz.counting.tables) -------------------------------------------
     @property
@@ -187,11 +187,11 @@ class Language:
 
     def __repr__(self) -> str:
         label = repr(self.pattern) if self.pattern is not None else "derived"
-        return f"<Language {label} over {self.universe_name}: {self.states} states>"
+        return f"<Language {label} over {self.alphabet_name}: {self.states} states>"
 
 
-def compile(pattern: str, universe: "str | CharSet" = "printable", flags: int = 0,
+def compile(pattern: str, alphabet: "str | CharSet" = "printable", flags: int = 0,
             *, state_cap: int = DEFAULT_STATE_CAP, mode: str = "fullmatch") -> Language:
-    """Compile a Python ``re`` pattern to the Language ``re.fullmatch`` accepts over ``universe``
+    """Compile a Python ``re`` pattern to the Language ``re.fullmatch`` accepts over ``alphabet``
     (``mode="match"`` or ``"search"`` for what ``re.match`` / ``re.search`` accept)."""
-    return Language.compile(pattern, universe, flags, state_cap=state_cap, mode=mode)
+    return Language.compile(pattern, alphabet, flags, state_cap=state_cap, mode=mode)

@@ -24,28 +24,28 @@ from __future__ import annotations
 
 from hypothesis import strategies as st
 
-from pfuzz.base.charset import DEFAULT_UNIVERSE
+from pfuzz.base.charset import DEFAULT_ALPHABET
 from pfuzz.errors import EmptyLanguageError
 from pfuzz.language import Language
 
 
 def accepted(pattern_or_language: "str | Language", *, min_length: int | None = None,
-             max_length: int | None = None, universe: str = DEFAULT_UNIVERSE,
+             max_length: int | None = None, alphabet: str = DEFAULT_ALPHABET,
              flags: int = 0) -> st.SearchStrategy[str]:
-    """Strings the pattern accepts (``re.fullmatch``), over ``universe``.
+    """Strings the pattern accepts (``re.fullmatch``), over ``alphabet``.
 
     For an unbounded language ``max_length`` defaults to the documented
     bound of ``pfuzz.counting.tables.UNBOUNDED_SPAN`` characters above the
     shortest length considered.
     """
-    language = _language(pattern_or_language, universe, flags)
+    language = _language(pattern_or_language, alphabet, flags)
     return ranked_strings(language, min_length, max_length, what="accepted strings")
 
 
-def _language(pattern_or_language, universe, flags) -> Language:
+def _language(pattern_or_language, alphabet, flags) -> Language:
     if isinstance(pattern_or_language, Language):
         return pattern_or_language
-    return Language.compile(pattern_or_language, universe, flags)
+    return Language.compile(pattern_or_language, alphabet, flags)
 
 
 def ranked_strings(language: Language, min_length: int | None, max_length: int | None,
@@ -66,7 +66,7 @@ def ranked_strings(language: Language, min_length: int | None, max_length: int |
 
 def rejected(pattern_or_language: "str | Language", *, distance: int = 1,
              kinds: "list[str] | None" = None, min_length: int | None = None,
-             max_length: int | None = None, universe: str = DEFAULT_UNIVERSE,
+             max_length: int | None = None, alphabet: str = DEFAULT_ALPHABET,
              flags: int = 0) -> st.SearchStrategy[str]:
     """Near-miss rejects: strings the pattern rejects within OSA ``distance`` of one it accepts.
 
@@ -76,6 +76,6 @@ def rejected(pattern_or_language: "str | Language", *, distance: int = 1,
     shortlex-smallest reject. ``Language.explain`` gives a reject's nearest
     valid string and edits.
     """
-    language = _language(pattern_or_language, universe, flags)
+    language = _language(pattern_or_language, alphabet, flags)
     return ranked_strings(language.near_misses(distance, kinds), min_length, max_length,
                           what="near-miss rejects")

@@ -14,8 +14,8 @@ from hypothesis import strategies as st
 from pfuzz.base.charset import CharSet, partition
 from pfuzz.automata.dfa import DFA, transitions
 
-UNIVERSE = CharSet.range("a", "c")
-CLASSES = tuple(partition([CharSet.single("a"), CharSet.single("b")], UNIVERSE))
+ALPHABET = CharSet.range("a", "c")
+CLASSES = tuple(partition([CharSet.single("a"), CharSet.single("b")], ALPHABET))
 
 
 def strings_upto(alphabet: str, max_length: int) -> Iterator[str]:
@@ -34,7 +34,7 @@ def random_dfas(draw):
     n = draw(st.integers(1, 6))
     table = tuple(tuple(draw(st.integers(-1, n - 1)) for _ in CLASSES) for _ in range(n))
     accepting = frozenset(s for s in range(n) if draw(st.booleans()))
-    return DFA(UNIVERSE, CLASSES, table, accepting)
+    return DFA(ALPHABET, CLASSES, table, accepting)
 
 
 def language(d: DFA) -> set[str]:

@@ -89,8 +89,8 @@ def accepted_lengths(d: DFA, up_to: int) -> set[int]:
     return found
 
 
-def test_operands_over_different_universes_are_refused():
+def test_operands_over_different_alphabets_are_refused():
     from pfuzz.errors import ArgumentError
     a, b = pfuzz.compile("a", "ascii").dfa, pfuzz.compile("a", "printable").dfa
-    with pytest.raises(ArgumentError, match="different universes"):
+    with pytest.raises(ArgumentError, match="different alphabets"):
         algebra.intersection(a, b)

@@ -14,7 +14,7 @@ from pathlib import Path
 import pytest
 
 import pfuzz
-from pfuzz.audit.run import CATEGORY_ORDER, Settings, audit_universe, build_cases, run_audit, stages
+from pfuzz.audit.run import CATEGORY_ORDER, Settings, audit_alphabet, build_cases, run_audit, stages
 from pfuzz.errors import EmptyLanguageError
 from pfuzz.audit.hostile import HOSTILE_CHARACTERS, HOSTILE_KINDS, case_flips, hostile_variants
 from pfuzz.audit.targets import PythonTarget, RegexTarget
@@ -25,8 +25,8 @@ TICKET = r"[A-Z]{2}-[0-9]{4}"
 SMALL = Settings(valid=150, rejects=200)
 
 
-def audit(pattern: str, function: str, universe: str = "printable", settings: Settings = SMALL):
-    spec = pfuzz.compile(pattern, universe)
+def audit(pattern: str, function: str, alphabet: str = "printable", settings: Settings = SMALL):
+    spec = pfuzz.compile(pattern, alphabet)
     return run_audit(spec, PythonTarget(function, directory=FIXTURES), settings)
 
 
@@ -71,9 +71,9 @@ def test_case_sensitivity_slip():
     assert all(re.fullmatch("[0-9a-f]{6}", c.text.lower()) for c in found)  # reference: re
 
 
-@pytest.mark.parametrize("universe", ["printable", "unicode"])
-def test_unicode_digits_through_backslash_d(universe):
-    report = audit(TICKET, "tickets:unicode_digits", universe)
+@pytest.mark.parametrize("alphabet", ["printable", "unicode"])
+def test_unicode_digits_through_backslash_d(alphabet):
+    report = audit(TICKET, "tickets:unicode_digits", alphabet)
     found = wrong_accepts(report)
     assert any(c.category == "hostile" and c.kind == "non-ascii-digit" for c in found)
     assert all(any(not ("0" <= ch <= "9") and ch.isdecimal() for ch in c.text) for c in found)
@@ -99,8 +99,8 @@ def test_every_expected_verdict_agrees_with_re():
     spec = pfuzz.compile(TICKET)
     cases, _ = build_cases(spec, SMALL)
     for case in cases:
-        inside = all(ch in spec.universe for ch in case.text)
-        # Reference: Python's re; outside the universe a string is invalid by definition.
+        inside = all(ch in spec.alphabet for ch in case.text)
+        # Reference: Python's re; outside the alphabet a string is invalid by definition.
         assert case.expected == (inside and re.fullmatch(TICKET, case.text) is not None), case
         if case.witness is not None:
             assert re.fullmatch(TICKET, case.witness) and apply_edits(case.witness, case.edits) == case.text
@@ -116,11 +116,11 @@ def test_cases_are_reproducible():
     assert first == again and first != other
 
 
-def test_rejects_use_the_wider_universe():
+def test_rejects_use_the_wider_alphabet():
     spec = pfuzz.compile("[0-9]{3}")
     cases, _ = build_cases(spec, Settings(valid=0, rejects=400))
-    wide = audit_universe(spec.universe, "latin1")
-    outside = [c for c in cases if any(ch not in spec.universe for ch in c.text)]
+    wide = audit_alphabet(spec.alphabet, "latin1")
+    outside = [c for c in cases if any(ch not in spec.alphabet for ch in c.text)]
     assert outside and all(all(ch in wide for ch in c.text) for c in outside)
     assert any(c.category == "near-miss" and c.kind for c in cases)
 
@@ -138,7 +138,7 @@ def test_empty_specification_is_an_error():
 
 
 def test_universal_specification_has_no_rejects_to_draw():
-    latin1 = pfuzz.UNIVERSES["latin1"]
+    latin1 = pfuzz.ALPHABETS["latin1"]
     cases, notes = build_cases(pfuzz.compile(r"[\s\S]*", "latin1"), Settings(valid=20, rejects=20))
     rejects = [c for c in cases if not c.expected]
     assert rejects and all(any(ch not in latin1 for ch in c.text) for c in rejects)

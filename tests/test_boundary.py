@@ -1,7 +1,7 @@
 """Tests for pfuzz.boundary.suite: verdicts, transition coverage, determinism, size, cost.
 
 Two references outside the module: Python's ``re.fullmatch`` for compiled
-patterns, and brute-force enumeration of every string over a small universe
+patterns, and brute-force enumeration of every string over a small alphabet
 for automata built directly from a Python predicate (so these do not depend
 on the pattern compiler either).
 """
@@ -220,7 +220,7 @@ def test_every_case_agrees_with_re(pattern):
         reference = re.fullmatch(pattern, case.text) is not None  # reference: Python's re
         assert case.expected == reference, (pattern, case)
         assert case.category in boundary.CATEGORIES and case.reason
-        assert all(ch in lang.universe for ch in case.text)
+        assert all(ch in lang.alphabet for ch in case.text)
     assert len({c.text for c in cases}) == len(cases)
     strings = assert_covers(lang.dfa)
     assert sum(c.category == "coverage" for c in cases) <= len(strings)
@@ -312,7 +312,7 @@ def small_patterns(draw, depth=2):
 @settings(max_examples=150, deadline=None, database=None)
 @given(small_patterns())
 def test_random_patterns_agree_with_re_and_are_covered(pattern):
-    lang = pfuzz.compile(pattern, universe="[a-d]")
+    lang = pfuzz.compile(pattern, alphabet="[a-d]")
     cases = suite(lang.dfa)
     for case in cases:
         assert case.expected == (re.fullmatch(pattern, case.text) is not None), (pattern, case)

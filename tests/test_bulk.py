@@ -80,7 +80,7 @@ def test_robin_hood_rows_reproduce_their_weights():
 
 def test_counts_beyond_float_range_keep_their_exponents():
     # Over Unicode, a{60} then 200 more characters: about 10^1208 strings, far beyond float64.
-    counter = pfuzz.compile(r"a{60}.*", universe="unicode").counter
+    counter = pfuzz.compile(r"a{60}.*", alphabet="unicode").counter
     tables = counter.float_tables(260)
     assert tables.has_strings(260) and not tables.has_strings(59)
     strings = counter.sample(3, lengths=[260], seed=1, method="bulk")
@@ -88,23 +88,23 @@ def test_counts_beyond_float_range_keep_their_exponents():
 
 
 def test_nul_characters_survive_decoding():
-    lang = pfuzz.compile(r"[\x00a]{3}\x00?", universe="ascii")
+    lang = pfuzz.compile(r"[\x00a]{3}\x00?", alphabet="ascii")
     strings = lang.sample(4000, seed=2, method="bulk")
     assert set(strings) == set(lang.enumerate(3, 4))
     assert all(re.fullmatch(r"[\x00a]{3}\x00?", s) for s in strings)
 
 
-@pytest.mark.parametrize("pattern,universe", [
+@pytest.mark.parametrize("pattern,alphabet", [
     (r"[a-cx-z]{2}[\x00-\x7f]", "ascii"),         # several ranges per edge, direct table
     (r"[^a]{2}a", "unicode"),                     # Unicode-wide edges, searched ranges
     (r"[A-Z]{2}[0-9]{4}", "printable"),            # no branching at all
     (r"(\u00e9|[\u4e00-\u4e0f])+", "bmp"),         # wide code points, UTF-32 decoding
 ])
-def test_bulk_strings_are_accepted_and_in_the_universe(pattern, universe):
-    lang = pfuzz.compile(pattern, universe=universe)
+def test_bulk_strings_are_accepted_and_in_the_alphabet(pattern, alphabet):
+    lang = pfuzz.compile(pattern, alphabet=alphabet)
     strings = lang.sample(3000, seed=5, method="bulk", max_length=6)
     assert all(re.fullmatch(pattern, s, re.S) for s in strings)
-    assert all(ch in lang.universe for s in strings for ch in s)
+    assert all(ch in lang.alphabet for s in strings for ch in s)
 
 
 def test_long_strings_take_the_bulk_path_with_bounded_tables():

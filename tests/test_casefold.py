@@ -10,11 +10,11 @@ import pytest
 
 from pfuzz.syntax.casefold import case_sensitive_points, resolve
 from pfuzz.syntax.categories import every_code_point_text
-from pfuzz.base.charset import UNIVERSES, CharSet, MAX_CODE_POINT
+from pfuzz.base.charset import ALPHABETS, CharSet, MAX_CODE_POINT
 from pfuzz.syntax.parser import parse
 
-UNICODE = UNIVERSES["unicode"]
-PRINTABLE = UNIVERSES["printable"]
+UNICODE = ALPHABETS["unicode"]
+PRINTABLE = ALPHABETS["printable"]
 
 I, IA, IS = re.I, re.I | re.A, re.I | re.S
 ATOMS = [(I, "k"), (I, "[a-z]"), (I, "[^a-z]"), (I, r"[\Wa]"), (I, r"\W"), (I, "[K]"), (I, "s"), (I, "ß"),
@@ -23,9 +23,9 @@ ATOMS = [(I, "k"), (I, "[a-z]"), (I, "[^a-z]"), (I, r"[\Wa]"), (I, r"\W"), (I, "
          (I, r"[^\x00-\x7f]"), (I, r"\d"), (I, "[Σσς]"), (0, "k"), (0, "[^a-z]")]
 
 
-def members_by_re(pattern: str, universe: CharSet) -> CharSet:
-    """Reference: Python's re; every character of ``universe`` it matches (each atom matches one)."""
-    text = "".join(universe.chars())
+def members_by_re(pattern: str, alphabet: CharSet) -> CharSet:
+    """Reference: Python's re; every character of ``alphabet`` it matches (each atom matches one)."""
+    text = "".join(alphabet.chars())
     return CharSet.from_chars(m.group() for m in re.finditer(pattern, text))
 
 
@@ -56,7 +56,7 @@ def test_brute_force_with_fullmatch_one_code_point_at_a_time(pattern):
     assert resolve(parse(pattern), UNICODE) == CharSet.of(map(tuple, ranges))
 
 
-def test_printable_universe():
+def test_printable_alphabet():
     assert resolve(parse("(?i)k"), PRINTABLE) == CharSet.from_chars("kK")
     assert resolve(parse("(?i)[^a-z]"), PRINTABLE) == PRINTABLE - CharSet.from_chars("abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ")
     assert resolve(parse("k"), PRINTABLE) == CharSet.single("k")

@@ -2,7 +2,7 @@
 
 from hypothesis import given, settings, strategies as st
 
-from pfuzz.base.charset import ALL, UNIVERSES, CharSet, partition
+from pfuzz.base.charset import ALL, ALPHABETS, CharSet, partition
 
 small_ranges = st.lists(st.tuples(st.integers(0, 40), st.integers(0, 40)), max_size=5)
 
@@ -15,12 +15,12 @@ def as_set(ranges):
 @given(small_ranges, small_ranges)
 def test_algebra_matches_python_sets(a, b):
     x, y = CharSet.of(a), CharSet.of(b)
-    universe = CharSet.range(0, 40)
+    alphabet = CharSet.range(0, 40)
     assert set(x) == as_set(a)
     assert set(x | y) == as_set(a) | as_set(b)
     assert set(x & y) == as_set(a) & as_set(b)
-    assert set((x - y) & universe) == as_set(a) - as_set(b)
-    assert set(x.complement(universe)) == set(range(41)) - as_set(a)
+    assert set((x - y) & alphabet) == as_set(a) - as_set(b)
+    assert set(x.complement(alphabet)) == set(range(41)) - as_set(a)
     assert len(x) == len(as_set(a))
     # normal form: sorted, disjoint, not adjacent
     for (lo1, hi1), (lo2, hi2) in zip(x.ranges, x.ranges[1:]):
@@ -30,9 +30,9 @@ def test_algebra_matches_python_sets(a, b):
 @settings(max_examples=200, deadline=None, database=None)
 @given(st.lists(small_ranges, max_size=5))
 def test_partition_refines_every_set(sets):
-    universe = CharSet.range(0, 40)
+    alphabet = CharSet.range(0, 40)
     charsets = [CharSet.of(r) for r in sets]
-    classes = partition(charsets, universe)
+    classes = partition(charsets, alphabet)
     covered = [p for c in classes for p in c]
     assert sorted(covered) == list(range(41))          # disjoint and covering
     for s in charsets:
@@ -52,13 +52,13 @@ def test_nth_and_index_are_inverse():
     assert [s.nth(i) for i in range(len(s))] == list(s)
 
 
-def test_universes():
-    assert len(UNIVERSES["printable"]) == 95              # U+0020..U+007E
-    assert len(UNIVERSES["ascii"]) == 128
-    assert len(UNIVERSES["latin1"]) == 256
-    assert len(UNIVERSES["bmp"]) == 0x10000 - 0x800      # surrogates excluded
-    assert len(UNIVERSES["unicode"]) == 0x110000 - 0x800
-    assert 0xD800 not in UNIVERSES["unicode"]
+def test_alphabets():
+    assert len(ALPHABETS["printable"]) == 95              # U+0020..U+007E
+    assert len(ALPHABETS["ascii"]) == 128
+    assert len(ALPHABETS["latin1"]) == 256
+    assert len(ALPHABETS["bmp"]) == 0x10000 - 0x800      # surrogates excluded
+    assert len(ALPHABETS["unicode"]) == 0x110000 - 0x800
+    assert 0xD800 not in ALPHABETS["unicode"]
     assert len(ALL) == 0x110000
 
 

@@ -88,7 +88,7 @@ def test_command_validator_and_its_failures():
 def test_regex_validator_is_compared_exactly():
     result = run("--pattern", TICKET, "--regex", TICKET + "$", "--mode", "match")
     assert result.exit_code == 1
-    assert "exact comparison over the audit universe" in result.output
+    assert "exact comparison over the audit alphabet" in result.output
     assert "wrong accepts (only the validator accepts): 6,760,000 strings" in result.output
     assert r"pattern:  [A-Z]{2}-[0-9]{4}\n" in result.output
 
@@ -105,8 +105,8 @@ def test_profile_fields(tmp_path):
     assert result.exit_code == 1 and json.loads(result.output)["summary"][-1]["raised"] > 0
     result = run(str(profile), "--field", "nope", "--target", "tickets:correct")
     assert result.exit_code == 2 and "has no field 'nope'" in result.output
-    result = run(str(profile), "--field", "ticket", "--universe", "ascii", "--target", "tickets:correct")
-    assert result.exit_code == 2 and "--universe applies to --pattern" in result.output
+    result = run(str(profile), "--field", "ticket", "--alphabet", "ascii", "--target", "tickets:correct")
+    assert result.exit_code == 2 and "--alphabet applies to --pattern" in result.output
 
 
 @pytest.mark.parametrize("args, message", [

@@ -10,27 +10,27 @@ def run(*args):
     return CliRunner().invoke(main, list(args))
 
 
-def test_empty_language_because_of_the_universe_gets_a_hint():
+def test_empty_language_because_of_the_alphabet_gets_a_hint():
     result = run("sample", "é+", "-n", "2")
     assert result.exit_code == 2
     assert "language is empty" in result.stderr
-    assert "outside the universe 'printable'" in result.stderr
+    assert "outside the alphabet 'printable'" in result.stderr
     assert "Traceback" not in result.output
 
 
-def test_truly_empty_language_gets_no_universe_hint():
+def test_truly_empty_language_gets_no_alphabet_hint():
     result = run("sample", "a(?!a)a", "-n", "2")
     assert result.exit_code == 2
-    assert "outside the universe" not in result.stderr
+    assert "outside the alphabet" not in result.stderr
 
 
-def test_empty_near_miss_language_of_a_non_empty_pattern_gets_no_universe_hint():
+def test_empty_near_miss_language_of_a_non_empty_pattern_gets_no_alphabet_hint():
     # '.*' accepts every string over printable (no newline in it), so nothing is a near miss;
-    # the pattern itself is not empty over the universe, so the hint would be false.
+    # the pattern itself is not empty over the alphabet, so the hint would be false.
     result = run("reject", ".*", "-n", "2")
     assert result.exit_code == 2
     assert "no near-miss rejects" in result.stderr
-    assert "outside the universe" not in result.stderr
+    assert "outside the alphabet" not in result.stderr
 
 
 def test_a_count_beyond_memory_is_one_line_not_a_traceback():

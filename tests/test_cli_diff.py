@@ -32,10 +32,10 @@ def test_different_patterns_exit_1_with_both_sides():
 
 
 def test_json_report_matches_brute_force():
-    result = run("--format", "json", "--universe", "[ab]", "--max-length", "5", "a[ab]*", "[ab]*b")
+    result = run("--format", "json", "--alphabet", "[ab]", "--max-length", "5", "a[ab]*", "[ab]*b")
     assert result.exit_code == 1
     report = json.loads(result.output)
-    assert report["equal"] is False and report["universe"] == "[ab]"
+    assert report["equal"] is False and report["alphabet"] == "[ab]"
     # Reference: Python's re over every string of length <= 5.
     strings = ["".join(p) for n in range(6) for p in itertools.product("ab", repeat=n)]
     only_a = [s for s in strings if re.fullmatch("a[ab]*", s) and not re.fullmatch("[ab]*b", s)]

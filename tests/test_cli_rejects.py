@@ -49,7 +49,7 @@ def test_reject_is_reproducible_and_honours_options(tmp_path):
 
 
 def test_reject_escapes_control_characters_and_says_so():
-    result = run("reject", "a", "--universe", "ascii", "-n", "40", "--kind", "replace")
+    result = run("reject", "a", "--alphabet", "ascii", "-n", "40", "--kind", "replace")
     assert result.exit_code == 0
     assert "escape" in result.stderr
     assert all(len(line) == 1 or line.startswith("\\") for line in result.stdout.splitlines())
@@ -98,7 +98,7 @@ def test_explain_with_a_pattern_file(tmp_path):
 
 
 def test_explain_caret_under_escaped_characters():
-    result = run("explain", "a\tb", "--universe", "ascii", "a\tc")
+    result = run("explain", "a\tb", "--alphabet", "ascii", "a\tc")
     lines = result.stdout.splitlines()
     assert lines[1] == "text      a\\tc" and lines[2] == "             ^"
 

@@ -66,9 +66,9 @@ def test_sample_text_is_one_accepted_string_per_line():
 
 def test_sample_escapes_control_characters_in_text_and_keeps_them_in_jsonl():
     pattern = r"[\x00\n\\a]{3}"
-    text = run("sample", pattern, "--universe", "ascii", "-n", "40", "--seed", "1")
+    text = run("sample", pattern, "--alphabet", "ascii", "-n", "40", "--seed", "1")
     assert "escapes" in text.stderr and "\x00" not in text.stdout
-    jsonl = run("sample", pattern, "--universe", "ascii", "-n", "40", "--seed", "1",
+    jsonl = run("sample", pattern, "--alphabet", "ascii", "-n", "40", "--seed", "1",
                 "--format", "jsonl")
     strings = [json.loads(line) for line in jsonl.stdout.splitlines()]
     assert len(strings) == 40 and all(re.fullmatch(pattern, s) for s in strings)

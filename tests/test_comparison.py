@@ -1,6 +1,6 @@
 """Difference languages of two patterns (pfuzz.audit.comparison), against brute force.
 
-The reference is Python's ``re``: over a two- or three-letter universe, every
+The reference is Python's ``re``: over a two- or three-letter alphabet, every
 string up to length ``N`` is tried with ``re.fullmatch`` on both patterns, and
 the sets A − B and B − A so found must match pfuzz's counts per length, its
 shortest examples, and the language of the pattern it writes for each side.
@@ -53,11 +53,11 @@ pairs = st.sampled_from(["ab", "abc"]).flatmap(
 @settings(max_examples=80, deadline=None, database=None)
 @given(pairs)
 def test_differences_match_brute_force(case):
-    alphabet, pattern_a, pattern_b = case
-    universe = f"[{alphabet}]"
-    a, b = pfuzz.compile(pattern_a, universe), pfuzz.compile(pattern_b, universe)
+    letters, pattern_a, pattern_b = case
+    alphabet = f"[{letters}]"
+    a, b = pfuzz.compile(pattern_a, alphabet), pfuzz.compile(pattern_b, alphabet)
     result = compare(a, b, max_length=N, examples=4)
-    in_a, in_b = brute(pattern_a, alphabet), brute(pattern_b, alphabet)
+    in_a, in_b = brute(pattern_a, letters), brute(pattern_b, letters)
     for side, expected in ((result.only_a, in_a - in_b), (result.only_b, in_b - in_a)):
         per_length = {n: sum(1 for s in expected if len(s) == n) for n in range(N + 1)}
         assert side.counts == {n: c for n, c in per_length.items() if c}
@@ -65,7 +65,7 @@ def test_differences_match_brute_force(case):
         if len(first) == 4 or side.finite and (side.language.max_length or 0) <= N:
             assert list(side.examples) == first
         assert side.pattern is not None
-        assert brute(side.pattern, alphabet) == expected
+        assert brute(side.pattern, letters) == expected
     if result.equal:
         assert in_a == in_b
     if in_a != in_b:
@@ -109,10 +109,10 @@ def test_too_large_patterns_are_not_shown():
 
 def test_lift_keeps_the_language_and_rejects_new_characters():
     lang = pfuzz.compile("[0-9]{2}")
-    wider = lift(lang, pfuzz.UNIVERSES["latin1"])
-    assert wider.universe == pfuzz.UNIVERSES["latin1"]
+    wider = lift(lang, pfuzz.ALPHABETS["latin1"])
+    assert wider.alphabet == pfuzz.ALPHABETS["latin1"]
     assert wider.accepts("42") and not wider.accepts("4\u00b2") and not wider.accepts("4\n")
     assert wider.count(2) == 100
-    assert lift(lang, lang.universe) is lang
+    assert lift(lang, lang.alphabet) is lang
     narrow = pfuzz.compile("[0-9]{2}", CharSet.range("0", "9"))
-    assert lift(narrow, lang.universe).equivalent(lang)
+    assert lift(narrow, lang.alphabet).equivalent(lang)

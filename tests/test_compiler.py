@@ -9,13 +9,13 @@ import pytest
 import pfuzz
 from helpers import strings_upto
 from pfuzz.automata import algebra
-from pfuzz.base.charset import ALL, UNIVERSES, CharSet
+from pfuzz.base.charset import ALL, ALPHABETS, CharSet
 from pfuzz.automata.construction.compiler import compile_dfa, compile_tree
 from pfuzz.automata.dfa import DEFAULT_STATE_CAP
 from pfuzz.errors import PatternError, StateLimitError
 from pfuzz.syntax.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
 
-PRINTABLE = UNIVERSES["printable"]
+PRINTABLE = ALPHABETS["printable"]
 NO_NEWLINE = CharSet.single("\n").complement()
 
 
@@ -39,13 +39,13 @@ def star(item):
 DOT_STAR = star(Chars(NO_NEWLINE))
 
 
-def compiled(tree, universe: str | CharSet, cap: int = DEFAULT_STATE_CAP):
-    alphabet = CharSet.from_chars(universe) if isinstance(universe, str) else universe
-    return compile_tree(tree, alphabet, cap=cap, resolve=lambda node, u: node.chars & u)
+def compiled(tree, alphabet: str | CharSet, cap: int = DEFAULT_STATE_CAP):
+    letters = CharSet.from_chars(alphabet) if isinstance(alphabet, str) else alphabet
+    return compile_tree(tree, letters, cap=cap, resolve=lambda node, u: node.chars & u)
 
 
-def accepted(dfa, universe: str, max_length: int) -> set[str]:
-    return {w for w in strings_upto(universe, max_length) if dfa.accepts(w)}
+def accepted(dfa, alphabet: str, max_length: int) -> set[str]:
+    return {w for w in strings_upto(alphabet, max_length) if dfa.accepts(w)}
 
 
 def test_literal_sequence_has_one_state_per_position():
@@ -53,7 +53,7 @@ def test_literal_sequence_has_one_state_per_position():
     assert dfa.n_states == 4 and dfa.accepts("abc") and not dfa.accepts("ab")
 
 
-def test_characters_outside_the_universe_give_the_empty_language():
+def test_characters_outside_the_alphabet_give_the_empty_language():
     assert compiled(lit("z"), "ab").is_empty()
 
 
@@ -124,7 +124,7 @@ def test_password_rule_equals_the_intersection_of_its_parts():
 
 def test_wide_classes_cost_few_symbol_classes():
     word = Chars(CharSet.of([(0x30, 0x39), (0x41, 0x5A), (0x61, 0x7A), (0xC0, 0x2FF)]))
-    dfa = compiled(Repeat(word, 3, 30), UNIVERSES["unicode"])
+    dfa = compiled(Repeat(word, 3, 30), ALPHABETS["unicode"])
     assert len(dfa.classes) == 2 and dfa.n_states == 31
 
 
@@ -161,8 +161,8 @@ def test_bounded_repeat_grows_linearly():
 
 # -- through the parser and the Language façade (values derived by hand) -----------------
 
-def lang(pattern: str, universe: str = "printable", **options):
-    return pfuzz.compile(pattern, universe, **options)
+def lang(pattern: str, alphabet: str = "printable", **options):
+    return pfuzz.compile(pattern, alphabet, **options)
 
 
 def test_fixed_length_code():
@@ -239,4 +239,4 @@ def test_match_modes():
 def test_an_unknown_mode_is_an_argument_error():
     from pfuzz.errors import ArgumentError
     with pytest.raises(ArgumentError, match="unknown match mode"):
-        compile_dfa("a", UNIVERSES["ascii"], mode="prefix")
+        compile_dfa("a", ALPHABETS["ascii"], mode="prefix")

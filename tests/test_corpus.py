@@ -223,10 +223,10 @@ def test_empty_field_language_is_a_profile_error(tmp_path):
     assert not (tmp_path / "out").exists()
 
 
-def test_empty_field_language_error_names_the_universe(tmp_path):
-    # 'é' is outside the default universe (printable ASCII), so the field is empty there
+def test_empty_field_language_error_names_the_alphabet(tmp_path):
+    # 'é' is outside the default alphabet (printable ASCII), so the field is empty there
     text = '[profile]\ntitle = "e"\n[[field]]\nname = "accent"\npattern = "é"\n'
-    with pytest.raises(ProfileError, match="no string satisfies.*universe 'printable'"):
+    with pytest.raises(ProfileError, match="no string satisfies.*alphabet 'printable'"):
         write_corpus(profile_file(tmp_path, text), tmp_path / "out")
 
 
@@ -238,7 +238,7 @@ HOSTILE = ',"\n\r\x00\t é\u2028'
 def test_hostile_strings_round_trip_through_every_file(tmp_path):
     # Every string of length 0..2 over ten awkward characters: 1 + 10 + 100 = 111 strings.
     chars = "".join(sorted(HOSTILE))
-    universe = "[" + "".join(f"\\u{ord(c):04x}" for c in chars) + "]"
+    alphabet = "[" + "".join(f"\\u{ord(c):04x}" for c in chars) + "]"
     text = f"""
     [profile]
     title = "hostile"
@@ -246,7 +246,7 @@ def test_hostile_strings_round_trip_through_every_file(tmp_path):
     name = "text"
     pattern = '.{{0,2}}'
     flags = ["DOTALL"]
-    universe = '{universe}'
+    alphabet = '{alphabet}'
     valid = 200
     invalid = 0
     [record]

@@ -17,8 +17,8 @@ from pfuzz.counting.tables import UNBOUNDED_SPAN, Counter
 from pfuzz.automata.dfa import empty, explore, minimise
 
 
-def counter(pattern: str, universe="printable") -> Counter:
-    return pfuzz.compile(pattern, universe=universe).counter
+def counter(pattern: str, alphabet="printable") -> Counter:
+    return pfuzz.compile(pattern, alphabet=alphabet).counter
 
 
 def test_counts_are_exact_big_integers():
@@ -83,7 +83,7 @@ def test_rank_rejects_strings_outside_the_language():
 
 
 def test_rank_unrank_round_trip_over_wide_unicode_classes():
-    c = counter(r"\w{2}-[^a-z]", universe="unicode")
+    c = counter(r"\w{2}-[^a-z]", alphabet="unicode")
     size = c.count(4)
     for index in [0, 1, size // 3, size // 2, size - 1]:
         text = c.unrank(4, index)
@@ -114,12 +114,12 @@ def test_sharded_enumeration_equals_the_whole():
 def test_counter_accepts_an_untrimmed_dfa():
     # A hand-built automaton with a state that cannot reach acceptance (state 2).
     classes = (CharSet.single("a"), CharSet.single("b"))
-    universe = CharSet.range("a", "b")
+    alphabet = CharSet.range("a", "b")
 
     def step(config, c):
         return {(0, 0): 1, (0, 1): 2, (1, 0): 1, (2, 0): 2}.get((config, c))
 
-    raw = explore(0, step, lambda s: s == 1, classes, universe)
+    raw = explore(0, step, lambda s: s == 1, classes, alphabet)
     c = Counter(raw)
     assert [c.count(n) for n in range(4)] == [0, 1, 1, 1]
     assert Counter(minimise(raw)).counts(0, 5) == c.counts(0, 5)

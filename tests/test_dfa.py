@@ -8,7 +8,7 @@ accept the same set of suffixes.
 
 from hypothesis import given, settings
 
-from helpers import ALL_STRINGS, UNIVERSE, language, random_dfas
+from helpers import ALL_STRINGS, ALPHABET, language, random_dfas
 from pfuzz.automata import dfa as automata
 from pfuzz.base.charset import CharSet, partition
 from pfuzz.automata.dfa import DEAD, explore, minimise
@@ -40,21 +40,21 @@ def test_minimise_keeps_language_and_is_minimal(d):
 def test_window_family_is_minimal():
     # (a|b)*a(a|b){k}: the minimal DFA remembers the last k+1 letters, 2**(k+1) states
     # (a standard fact of automata theory).
-    universe = CharSet.range("a", "b")
-    classes = partition([CharSet.single("a")], universe)
+    alphabet = CharSet.range("a", "b")
+    classes = partition([CharSet.single("a")], alphabet)
     for k in range(0, 9):
         def step(window, c, k=k):
             return (window + ("ab"[c],))[-(k + 1):]
-        d = explore((), step, lambda w, k=k: len(w) == k + 1 and w[0] == "a", classes, universe)
+        d = explore((), step, lambda w, k=k: len(w) == k + 1 and w[0] == "a", classes, alphabet)
         assert minimise(d).n_states == 2 ** (k + 1)
 
 
 def test_moore_and_hopcroft_agree():
-    universe = CharSet.range("a", "b")
-    classes = partition([CharSet.single("a")], universe)
+    alphabet = CharSet.range("a", "b")
+    classes = partition([CharSet.single("a")], alphabet)
     def step(window, c):
         return (window + ("ab"[c],))[-7:]
-    d = automata.trim(explore((), step, lambda w: len(w) == 7 and w[0] == "a", classes, universe))
+    d = automata.trim(explore((), step, lambda w: len(w) == 7 and w[0] == "a", classes, alphabet))
     moore = automata._moore_blocks(d, 10**9)
     hopcroft = automata._hopcroft_blocks(d)
     assert len(set(moore)) == len(set(hopcroft))
@@ -63,8 +63,8 @@ def test_moore_and_hopcroft_agree():
 
 
 def test_from_strings_and_class_lookup():
-    d = automata.from_strings(["ab", "abc", "c"], UNIVERSE)
+    d = automata.from_strings(["ab", "abc", "c"], ALPHABET)
     assert language(d) == {"ab", "abc", "c"}
     assert d.class_of("z") == -1 and not d.accepts("abz")
-    assert automata.universal(UNIVERSE).accepts("cab")
-    assert automata.empty(UNIVERSE).is_empty()
+    assert automata.universal(ALPHABET).accepts("cab")
+    assert automata.empty(ALPHABET).is_empty()

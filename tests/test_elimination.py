@@ -2,7 +2,7 @@
 
 The reference matcher is Python's ``re``: every pattern pfuzz writes is
 compiled by ``re`` and checked with ``re.fullmatch`` against the DFA on every
-string up to a length (exhaustive over small universes). Where the pattern
+string up to a length (exhaustive over small alphabets). Where the pattern
 compiler is present, the pattern is also compiled back with ``pfuzz.compile``
 and compared to the DFA exactly with ``distinguish``.
 """
@@ -18,25 +18,25 @@ import pytest
 from hypothesis import given, settings, strategies as st
 
 from helpers import strings_upto
-from pfuzz.base.charset import UNIVERSES, CharSet
+from pfuzz.base.charset import ALPHABETS, CharSet
 from pfuzz.automata.algebra import concatenate, difference, distinguish
 from pfuzz.automata.dfa import DFA, explore, from_strings, minimise, universal
 from pfuzz.automata.elimination import DEFAULT_LIMIT, NOTHING_TEXT, pattern_of
 
-PRINTABLE = UNIVERSES["printable"]
+PRINTABLE = ALPHABETS["printable"]
 
 
-def table_dfa(alphabet: str, table, accepting) -> DFA:
+def table_dfa(letters: str, table, accepting) -> DFA:
     """A minimal DFA from a raw table over one class per character."""
-    universe = CharSet.from_chars(alphabet)
-    classes = tuple(CharSet.single(c) for c in alphabet)
-    raw = DFA(universe, classes, tuple(tuple(row) for row in table), frozenset(accepting))
+    alphabet = CharSet.from_chars(letters)
+    classes = tuple(CharSet.single(c) for c in letters)
+    raw = DFA(alphabet, classes, tuple(tuple(row) for row in table), frozenset(accepting))
     return minimise(raw)
 
 
-def counted(chars: CharSet, lo: int, hi: int | None, universe: CharSet = PRINTABLE) -> DFA:
+def counted(chars: CharSet, lo: int, hi: int | None, alphabet: CharSet = PRINTABLE) -> DFA:
     """DFA of chars{lo,hi} built directly (a counter state machine), not from a pattern."""
-    rest = universe - chars
+    rest = alphabet - chars
     classes = [chars, rest] if rest else [chars]
 
     def step(n, c):
@@ -46,13 +46,13 @@ def counted(chars: CharSet, lo: int, hi: int | None, universe: CharSet = PRINTAB
             return min(n + 1, lo)
         return n + 1 if n < hi else None
 
-    return minimise(explore(0, step, lambda n: n >= lo, classes, universe))
+    return minimise(explore(0, step, lambda n: n >= lo, classes, alphabet))
 
 
-def assert_same_as_re(dfa: DFA, pattern: str, alphabet: str, max_length: int) -> None:
+def assert_same_as_re(dfa: DFA, pattern: str, letters: str, max_length: int) -> None:
     """Reference: re.fullmatch (Python's re) on every string up to max_length."""
     compiled = re.compile(pattern)
-    for text in strings_upto(alphabet, max_length):
+    for text in strings_upto(letters, max_length):
         assert dfa.accepts(text) == bool(compiled.fullmatch(text)), (pattern, text)
 
 
@@ -60,7 +60,7 @@ def assert_round_trip(dfa: DFA, pattern: str) -> None:
     """Exact check through pfuzz's own compiler."""
     import pfuzz
 
-    back = pfuzz.compile(pattern, dfa.universe)
+    back = pfuzz.compile(pattern, dfa.alphabet)
     assert distinguish(back.dfa, dfa) is None, pattern
 
 
@@ -75,18 +75,18 @@ tables = st.integers(1, 5).flatmap(lambda n: st.tuples(
 @settings(max_examples=300, deadline=None, database=None)
 @given(tables)
 def test_random_dfas_round_trip_through_re(spec):
-    alphabet, _n, rows, accepting = spec
-    dfa = table_dfa(alphabet, [row[:len(alphabet)] for row in rows], accepting)
+    letters, _n, rows, accepting = spec
+    dfa = table_dfa(letters, [row[:len(letters)] for row in rows], accepting)
     pattern = pattern_of(dfa)
     assert pattern is not None
-    assert_same_as_re(dfa, pattern, alphabet, 6)
+    assert_same_as_re(dfa, pattern, letters, 6)
 
 
 @settings(max_examples=60, deadline=None, database=None)
 @given(tables)
 def test_random_dfas_compile_back_exactly(spec):
-    alphabet, _n, rows, accepting = spec
-    dfa = table_dfa(alphabet, [row[:len(alphabet)] for row in rows], accepting)
+    letters, _n, rows, accepting = spec
+    dfa = table_dfa(letters, [row[:len(letters)] for row in rows], accepting)
     assert_round_trip(dfa, pattern_of(dfa))
 
 
@@ -150,14 +150,14 @@ def test_limit_returns_none_when_too_long():
 
 
 def test_special_characters_in_languages():
-    alphabet = "a.\n*"
-    universe = CharSet.from_chars(alphabet)
+    letters = "a.\n*"
+    alphabet = CharSet.from_chars(letters)
     words = ["a.", "\n*", "**", ".\n", "a"]
-    dfa = from_strings(words, universe)
+    dfa = from_strings(words, alphabet)
     pattern = pattern_of(dfa)
-    assert_same_as_re(dfa, pattern, alphabet, 3)
-    star = concatenate(universal(universe), from_strings(["*"], universe))
-    assert_same_as_re(star, pattern_of(star), alphabet, 4)
+    assert_same_as_re(dfa, pattern, letters, 3)
+    star = concatenate(universal(alphabet), from_strings(["*"], alphabet))
+    assert_same_as_re(star, pattern_of(star), letters, 4)
 
 
 REALISTIC = [
@@ -185,8 +185,8 @@ def test_realistic_patterns_come_back_equal(source):
     assert pfuzz.compile(written).equivalent(lang)
     # Reference: Python's re agrees on both patterns, on valid-looking and random strings.
     rng = random.Random(7)
-    alphabet = "0123456789abcdefABCDEF.:-/#+,\"xz "
-    probes = ["".join(rng.choice(alphabet) for _ in range(rng.randint(0, 40))) for _ in range(2000)]
+    letters = "0123456789abcdefABCDEF.:-/#+,\"xz "
+    probes = ["".join(rng.choice(letters) for _ in range(rng.randint(0, 40))) for _ in range(2000)]
     probes += ["AB-1234", "31/12/2024", "255.0.10.1", "1e+5", "23:59:59", "#abc", "a1b2c3d4"]
     for text in probes:
         assert bool(re.fullmatch(source, text)) == bool(re.fullmatch(written, text)), text

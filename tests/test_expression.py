@@ -10,20 +10,20 @@ import re
 
 import pytest
 
-from pfuzz.base.charset import UNIVERSES, CharSet
+from pfuzz.base.charset import ALPHABETS, CharSet
 from pfuzz.automata.expression import Algebra, class_text, escape_char
 
-PRINTABLE = UNIVERSES["printable"]
+PRINTABLE = ALPHABETS["printable"]
 
 
 def test_class_text_picks_the_shorter_form():
     assert class_text(PRINTABLE - CharSet.single("a"), PRINTABLE) == "[^a]"
     assert class_text(CharSet.range("0", "9"), PRINTABLE) == "[0-9]"
     assert class_text(PRINTABLE - CharSet.single("\n"), PRINTABLE) == "."
-    ascii_ = UNIVERSES["ascii"]
+    ascii_ = ALPHABETS["ascii"]
     assert class_text(ascii_ - CharSet.single("\n"), ascii_) == "."
     assert class_text(ascii_, ascii_) == r"[\x00-\x7f]"
-    bmp = UNIVERSES["bmp"]  # surrogates are outside the universe, so the gap is bridged
+    bmp = ALPHABETS["bmp"]  # surrogates are outside the alphabet, so the gap is bridged
     assert class_text(bmp, bmp) == r"[\x00-\uffff]"
 
 
@@ -34,10 +34,10 @@ SPECIALS = ".^$*+?{}[]\\|()-&~ \t\n\r\x00\x7f\u00a0\u200b\uff21\U0001F600é"
 def test_every_special_character_is_escaped_for_re(char):
     """Reference: Python's re reads the escaped text back as the character itself."""
     assert re.fullmatch(escape_char(ord(char)), char)
-    universe = UNIVERSES["unicode"]
+    alphabet = ALPHABETS["unicode"]
     for chars in (CharSet.single(char), CharSet.single(char) | CharSet.single("a"),
                   CharSet.range(ord(char), ord(char) + 2)):
-        text = class_text(chars, universe)
+        text = class_text(chars, alphabet)
         for point in range(max(ord(char) - 2, 0), ord(char) + 4):
             assert bool(re.fullmatch(text, chr(point))) == (point in chars), (text, point)
 

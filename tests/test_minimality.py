@@ -13,16 +13,16 @@ from collections import deque
 import pytest
 from hypothesis import given, settings, strategies as st
 
-from pfuzz.base.charset import UNIVERSES, CharSet
+from pfuzz.base.charset import ALPHABETS, CharSet
 from pfuzz.automata.construction.compiler import compile_tree
 from pfuzz.automata.dfa import DEAD
 from pfuzz.syntax.tree import ANCHOR_KINDS, Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
 
-UNIVERSE = CharSet.from_chars("ab\n")
+ALPHABET = CharSet.from_chars("ab\n")
 
 
-def resolve(node, universe):
-    return node.chars & universe
+def resolve(node, alphabet):
+    return node.chars & alphabet
 
 
 def moore_classes(dfa) -> int:
@@ -76,16 +76,16 @@ trees = st.recursive(
 @settings(max_examples=300, deadline=None, database=None)
 @given(trees)
 def test_random_trees_compile_to_trimmed_minimal_automata(tree):
-    assert_minimal(compile_tree(tree, UNIVERSE, resolve=resolve))
+    assert_minimal(compile_tree(tree, ALPHABET, resolve=resolve))
 
 
 @settings(max_examples=100, deadline=None, database=None)
 @given(trees)
 def test_compilation_is_canonical(tree):
-    once = compile_tree(tree, UNIVERSE, resolve=resolve)
+    once = compile_tree(tree, ALPHABET, resolve=resolve)
     # Wrapping in a one-item sequence or a {1} repeat changes the tree, not the language.
-    assert compile_tree(Sequence((tree,)), UNIVERSE, resolve=resolve) == once
-    assert compile_tree(Repeat(tree, 1, 1), UNIVERSE, resolve=resolve) == once
+    assert compile_tree(Sequence((tree,)), ALPHABET, resolve=resolve) == once
+    assert compile_tree(Repeat(tree, 1, 1), ALPHABET, resolve=resolve) == once
 
 
 def family(k: int):
@@ -105,6 +105,6 @@ def test_last_letters_family_needs_two_to_the_k_plus_one_states(k):
 
 @pytest.mark.parametrize("k", [3, 8])
 def test_last_letters_family_over_printable(k):
-    dfa = compile_tree(family(k), UNIVERSES["printable"], resolve=resolve)
+    dfa = compile_tree(family(k), ALPHABETS["printable"], resolve=resolve)
     assert dfa.n_states == 2 ** (k + 1)
     assert len(dfa.classes) == 3  # a, b and every other character

@@ -31,7 +31,7 @@ def test_one_literal_pair_over_three_letters():
     #   insert:  xab, axb, abx for x in abc -> aab bab cab abb acb aba abc (7 distinct)
     #   replace: bb cb (first), aa ac (second)
     #   swap:    ba
-    lang = pfuzz.compile("ab", universe="[abc]")
+    lang = pfuzz.compile("ab", alphabet="[abc]")
     assert strings(near_miss_dfa(lang.dfa, 1, ["delete"]), 5) == {"a", "b"}
     assert strings(near_miss_dfa(lang.dfa, 1, ["insert"]), 5) == {
         "aab", "bab", "cab", "abb", "acb", "aba", "abc"}
@@ -73,7 +73,7 @@ def test_three_digits_over_printable_ascii_distance_two():
 def test_two_swaps_at_distance_two():
     # L = {"abcd"} over {a, b, c, d}: two disjoint adjacent swaps give "badc";
     # one swap gives "bacd", "acbd", "abdc". Overlapping swaps ("bcad") are not OSA 2.
-    lang = pfuzz.compile("abcd", universe="[abcd]")
+    lang = pfuzz.compile("abcd", alphabet="[abcd]")
     assert strings(near_miss_dfa(lang.dfa, 2, ["swap"]), 6) == {"bacd", "acbd", "abdc", "badc"}
 
 
@@ -83,8 +83,8 @@ def test_kinds_restrict_operations_for_larger_distances():
 
 
 def test_the_empty_language_and_everything_have_no_near_misses():
-    assert near_miss_dfa(pfuzz.compile("[^\\s\\S]", universe="[ab]").dfa, 2).is_empty()
-    assert near_miss_dfa(pfuzz.compile("[ab]*", universe="[ab]").dfa, 1).is_empty()
+    assert near_miss_dfa(pfuzz.compile("[^\\s\\S]", alphabet="[ab]").dfa, 2).is_empty()
+    assert near_miss_dfa(pfuzz.compile("[ab]*", alphabet="[ab]").dfa, 1).is_empty()
 
 
 def test_arguments_are_checked():
@@ -166,15 +166,15 @@ def test_empty_strata_pass_their_share_on():
 
 
 def test_kinds_list_every_kind_that_reaches_a_reject():
-    lang = pfuzz.compile("ab", universe="[abc]")
+    lang = pfuzz.compile("ab", alphabet="[abc]")
     assert kinds_of(lang.dfa, "ba") == ("swap",)
     assert kinds_of(lang.dfa, "aa") == ("replace",)
     assert kinds_of(lang.dfa, "abb") == ("insert",)
-    both = pfuzz.compile("ab|ba|a", universe="[abc]")
+    both = pfuzz.compile("ab|ba|a", alphabet="[abc]")
     assert kinds_of(both.dfa, "bb") == ("replace",)
     assert kinds_of(both.dfa, "b") == ("delete", "replace")  # from "ab"; from "a"
     # "bac": a swap of "abc", a substitution in "bbc".
-    assert kinds_of(pfuzz.compile("abc|bbc", universe="[abc]").dfa, "bac") == ("replace", "swap")
+    assert kinds_of(pfuzz.compile("abc|bbc", alphabet="[abc]").dfa, "bac") == ("replace", "swap")
 
 
 def test_length_bounds_and_nothing_to_draw():
@@ -183,7 +183,7 @@ def test_length_bounds_and_nothing_to_draw():
     with pytest.raises(EmptyLanguageError):
         sample_rejects(lang.dfa, 5, min_length=6, max_length=8)
     with pytest.raises(EmptyLanguageError):
-        sample_rejects(pfuzz.compile("[ab]*", universe="[ab]").dfa, 3)
+        sample_rejects(pfuzz.compile("[ab]*", alphabet="[ab]").dfa, 3)
     assert sample_rejects(lang.dfa, 0) == []
 
 
@@ -203,7 +203,7 @@ def test_language_facade_forwards():
 
 def test_uniform_within_a_length():
     # Chi-squared goodness of fit (scipy.stats) over all near misses of length 3 of L = a(b|c)a over {a, b, c}: every string equally likely.
-    lang = pfuzz.compile("a[bc]a", universe="[abc]")
+    lang = pfuzz.compile("a[bc]a", alphabet="[abc]")
     support = sorted(Counter(near_miss_dfa(lang.dfa, 1)).enumerate(3, 3))
     draws = sample_rejects(lang.dfa, 40 * len(support), min_length=3, max_length=3, seed=9)
     observed = [sum(1 for r in draws if r.text == s) for s in support]
@@ -237,7 +237,7 @@ def test_rejected_strategy_shrinks_to_the_shortlex_least_reject():
     assert find(rejected("[0-9]{3}"), lambda s: True, settings=quiet) == "00"
     assert find(rejected("[0-9]{3}"), lambda s: len(s) == 4, settings=quiet) == " 000"
     with pytest.raises(EmptyLanguageError):
-        rejected("[ab]*", universe="[ab]")
+        rejected("[ab]*", alphabet="[ab]")
 
 
 def test_lengths_are_equally_likely():

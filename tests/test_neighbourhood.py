@@ -18,7 +18,7 @@ from pfuzz.nearmiss.neighbourhood import KINDS, build, edge_characters
 def test_cutting_dominated_states_keeps_the_language(seed, monkeypatch):
     rng = random.Random(seed)
     pattern = "".join(rng.choice(["a", "b", "[ab]", "(ab)?", "a*", "(a|bb)"]) for _ in range(4))
-    dfa = pfuzz.compile(pattern, universe="[ab]").dfa
+    dfa = pfuzz.compile(pattern, alphabet="[ab]").dfa
     kinds = tuple(rng.sample(KINDS, rng.randint(1, 4)))
     cut = build(dfa, 2, kinds, False)
     monkeypatch.setattr(neighbourhood, "beaten", lambda sim: [0] * (sim.shape[0] - 1))
@@ -31,7 +31,7 @@ def test_edge_characters_are_just_outside_each_transition():
     assert only == {ord("/"), ord("6")}
 
 
-def test_edges_stop_at_the_universe():
+def test_edges_stop_at_the_alphabet():
     lang = pfuzz.compile("[ -!]x")
     first = edge_characters(lang.dfa)[0]
     assert set(first.values()) == {frozenset({ord('"')})}  # no U+001F in printable ASCII
@@ -67,7 +67,7 @@ def test_edges_mode_is_its_definition(seed):
     # one-edit strings are written out from the definition in the module
     # docstring, over the transition labels of the minimal DFA.
     pattern = edges_pattern(random.Random(seed))
-    rx, lang = re.compile(pattern), pfuzz.compile(pattern, universe="[a-e]")
+    rx, lang = re.compile(pattern), pfuzz.compile(pattern, alphabet="[a-e]")
     expected = set()
     for w in strings_upto("abcde", 5):
         if rx.fullmatch(w):
@@ -80,7 +80,7 @@ def test_edges_mode_is_its_definition(seed):
 @pytest.mark.parametrize("seed", range(8))
 def test_edges_mode_cuts_keep_the_language(seed, monkeypatch):
     rng = random.Random(seed)
-    dfa = pfuzz.compile(edges_pattern(rng), universe="[a-e]").dfa
+    dfa = pfuzz.compile(edges_pattern(rng), alphabet="[a-e]").dfa
     kinds = tuple(rng.sample(KINDS, rng.randint(2, 4)))
     distance = 2 + seed % 2
     cut = build(dfa, distance, kinds, True)
@@ -91,9 +91,9 @@ def test_edges_mode_cuts_keep_the_language(seed, monkeypatch):
 @pytest.mark.parametrize("edges", [False, True])
 def test_the_unrolled_distance_one_step_is_the_general_step(edges):
     for seed in range(6):
-        dfa = pfuzz.compile(edges_pattern(random.Random(seed)), universe="[a-e]").dfa
+        dfa = pfuzz.compile(edges_pattern(random.Random(seed)), alphabet="[a-e]").dfa
         plan = neighbourhood._Neighbourhood(dfa, 1, KINDS, edges)
         built = [automata.minimise(automata.explore(plan.start(), step, plan.is_accepting,
-                                                    plan.classes, dfa.universe))
+                                                    plan.classes, dfa.alphabet))
                  for step in (plan.step, plan.step_one)]
         assert built[0] == built[1] == build(dfa, 1, KINDS, edges)

@@ -1,4 +1,4 @@
-"""Tests for pfuzz.boundary.paths, against brute-force enumeration over a 3-letter universe.
+"""Tests for pfuzz.boundary.paths, against brute-force enumeration over a 3-letter alphabet.
 
 The automata are built from Python predicates (``from_strings`` of every string
 up to length 6 that the predicate accepts), so the reference is the predicate
@@ -17,7 +17,7 @@ from pfuzz.automata.dfa import explore, from_strings, minimise
 from pfuzz.boundary.paths import Guide, Lengths
 
 LETTERS = "abc"
-UNIVERSE = CharSet.range("a", "c")
+ALPHABET = CharSet.range("a", "c")
 PREDICATES = [
     lambda s: 2 <= len(s) <= 5 and s.count("a") % 2 == 0,
     lambda s: len(s) in (1, 4, 5) and s.startswith("b"),
@@ -34,7 +34,7 @@ def shortlex_least(strings):
 def case(request):
     member = PREDICATES[request.param]
     valid = [s for s in strings_upto(LETTERS, 6) if member(s)]
-    return from_strings(valid, UNIVERSE), valid
+    return from_strings(valid, ALPHABET), valid
 
 
 def test_prefixes_and_completions_are_shortlex_least(case):
@@ -75,7 +75,7 @@ def test_unbounded_lengths_repeat_with_a_period():
     # (ab)* over a-c: valid lengths 0, 2, 4, ...; the scan stops when the reachable sets repeat
     classes = [CharSet.single(c) for c in LETTERS]
     dfa = minimise(explore(0, lambda k, c: (1 - k) if LETTERS[c] == "ab"[k] else None,
-                           lambda k: k == 0, classes, UNIVERSE))
+                           lambda k: k == 0, classes, ALPHABET))
     lengths = Lengths(Guide(dfa), None)
     assert lengths.period is not None and len(lengths.valid) <= 4
     assert [lengths.is_valid(n) for n in range(200)] == [n % 2 == 0 for n in range(200)]

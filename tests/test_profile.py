@@ -41,7 +41,7 @@ def test_minimal_profile_takes_documented_defaults(tmp_path):
     profile = load_profile(write(tmp_path, BASE))
     field = profile.field("code")
     assert (field.valid, field.invalid, field.distance) == (DEFAULT_VALID, DEFAULT_INVALID, 1)
-    assert field.edits == EDIT_KINDS and field.universe == "printable"
+    assert field.edits == EDIT_KINDS and field.alphabet == "printable"
     assert profile.record is None and profile.seed is None
 
 
@@ -81,7 +81,7 @@ def test_unknown_key_is_named_with_the_nearest_known_key(tmp_path, text, where, 
     ("invalid = 1.5", "invalid", "must be an integer, not a number"),
     ("require = 'x'", "require", "must be a list"),
     ("forbid = ['a', 3]", "forbid", "item 2 must be a string"),
-    ("universe = 3", "universe", "must be a string"),
+    ("alphabet = 3", "alphabet", "must be a string"),
     ("distance = 0", "distance", "must be between 1 and 3"),
     ("min_length = -1", "min_length", "must be between 0"),
     ("flags = ['IGNORCASE']", "flags", "did you mean 'IGNORECASE'?"),
@@ -89,7 +89,7 @@ def test_unknown_key_is_named_with_the_nearest_known_key(tmp_path, text, where, 
     ("edits = []", "edits", "needs at least one edit kind"),
     ("edits = ['swap', 'swap']", "edits", "lists a value twice"),
     ("min_length = 5\nmax_length = 4", "min_length", "more than max_length"),
-    ("universe = 'klingon'", "universe", "unknown universe"),
+    ("alphabet = 'klingon'", "alphabet", "unknown alphabet"),
 ])
 def test_wrong_type_or_value_names_field_and_key(tmp_path, line, key, words):
     error = error_of(tmp_path, BASE + line + "\n")

@@ -17,8 +17,8 @@ from pfuzz.base.randomness import RandomSource
 from pfuzz.counting.sampler import BULK_MIN_SAMPLES, plan
 
 
-def lang(pattern: str, universe: str = "printable") -> pfuzz.Language:
-    return pfuzz.compile(pattern, universe=universe)
+def lang(pattern: str, alphabet: str = "printable") -> pfuzz.Language:
+    return pfuzz.compile(pattern, alphabet=alphabet)
 
 
 @pytest.mark.parametrize("method", ["exact", "bulk"])

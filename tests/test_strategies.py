@@ -64,10 +64,10 @@ def test_failing_property_reports_the_minimal_example(run):
     assert seen[-1] == "50"
 
 
-def test_accepts_a_language_and_a_universe():
-    lang = pfuzz.compile(r"[ab]{2}", universe="[ab]")
+def test_accepts_a_language_and_a_alphabet():
+    lang = pfuzz.compile(r"[ab]{2}", alphabet="[ab]")
     assert find(accepted(lang), lambda s: s.endswith("b"), settings=QUIET) == "ab"
-    wide = accepted(r"\w", universe="latin1")
+    wide = accepted(r"\w", alphabet="latin1")
     assert find(wide, lambda s: not s.isascii(), settings=QUIET) == "\u00aa"
 
 

@@ -104,7 +104,7 @@ def test_python_import_failure_is_reported(tmp_path):
 @pytest.mark.parametrize("pattern", [r"ab", r"a$", r"^a|b$", r"(?i)a\Z", r"(?x) a b # note", r"a\n?$"])
 @pytest.mark.parametrize("mode", ["fullmatch", "match", "search"])
 def test_regex_language_is_what_the_call_accepts(pattern, mode):
-    lang = RegexTarget(pattern, mode).language(pfuzz.UNIVERSES["ascii"])
+    lang = RegexTarget(pattern, mode).language(pfuzz.ALPHABETS["ascii"])
     for n in range(5):
         for letters in itertools.product("aAb\n", repeat=n):
             text = "".join(letters)

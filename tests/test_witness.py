@@ -51,18 +51,18 @@ def test_a_transposition(plate):
 
 def test_shorter_witness_wins_over_alphabetical_order():
     # L = {aab, b}; "ab" is one edit from both; shortlex puts "b" first.
-    dfa = pfuzz.compile("aab|b", universe="[ab]").dfa
+    dfa = pfuzz.compile("aab|b", alphabet="[ab]").dfa
     why = explain(dfa, "ab")
     assert why.witness == "b" and why.edits == (Edit("insert", 0, "", "a"),)
 
 
 def test_alphabetical_order_breaks_ties_within_a_length():
-    dfa = pfuzz.compile("ab|ba", universe="[ab]").dfa
+    dfa = pfuzz.compile("ab|ba", alphabet="[ab]").dfa
     why = explain(dfa, "bb")
     assert why.witness == "ab" and why.edits == (Edit("replace", 0, "a", "b"),)
 
 
-def test_characters_outside_the_universe(plate):
+def test_characters_outside_the_alphabet(plate):
     why = explain(plate, "AB12\u00e934")
     assert why.witness == "AB1234" and why.edits == (Edit("insert", 4, "", "\u00e9"),)
 
@@ -76,7 +76,7 @@ def test_far_texts_deepen_the_bound(plate):
 
 
 def test_the_empty_string():
-    dfa = pfuzz.compile("abc", universe="[abc]").dfa
+    dfa = pfuzz.compile("abc", alphabet="[abc]").dfa
     why = explain(dfa, "")
     assert why.distance == 3 and [e.kind for e in why.edits] == ["delete"] * 3
 

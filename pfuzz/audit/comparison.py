@@ -5,7 +5,7 @@ difference is a ``Language`` (a product automaton, see ``pfuzz.automata.algebra`
 is summarised exactly: its count per length (``pfuzz.counting.tables``), its total
 when finite, its shortest strings in shortlex order, and a pattern for it
 written back by state elimination (``pfuzz.automata.elimination``). Every pattern is
-compiled back with ``pfuzz.compile`` over the same universe and compared
+compiled back with ``pfuzz.compile`` over the same alphabet and compared
 with ``distinguish`` before it is shown, so a pattern in a report always
 denotes exactly the difference.
 
@@ -80,8 +80,8 @@ class Comparison:
 def compare(a: Language, b: Language, *, max_length: int | None = None,
             examples: int = DEFAULT_EXAMPLES, limit: int = DEFAULT_LIMIT) -> Comparison:
     """Summaries of A − B and B − A (``max_length`` bounds the counts per length)."""
-    if a.universe != b.universe:
-        raise ValueError("compare() needs two languages over the same universe")
+    if a.alphabet != b.alphabet:
+        raise ValueError("compare() needs two languages over the same alphabet")
     return Comparison(summarise(a - b, max_length, examples, limit),
                       summarise(b - a, max_length, examples, limit),
                       a.distinguish(b))
@@ -117,21 +117,21 @@ def verified_pattern(lang: Language, limit: int = DEFAULT_LIMIT) -> tuple[str | 
     pattern = lang.to_pattern(limit)
     if pattern is None:
         return None, f"too large to show (more than {limit:,} characters)"
-    back = compile_pattern(pattern, lang.universe)
+    back = compile_pattern(pattern, lang.alphabet)
     if back.distinguish(lang) is not None:
         return None, "not shown: the pattern found did not compile back to the same language"
     return pattern, ""
 
 
-def lift(lang: Language, universe: CharSet) -> Language:
-    """The same language over a wider universe (new characters lead to rejection)."""
-    if not lang.universe.issubset(universe):
-        raise ValueError("lift() needs a universe that contains the language's universe")
-    extra = universe - lang.universe
+def lift(lang: Language, alphabet: CharSet) -> Language:
+    """The same language over a wider alphabet (new characters lead to rejection)."""
+    if not lang.alphabet.issubset(alphabet):
+        raise ValueError("lift() needs an alphabet that contains the language's alphabet")
+    extra = alphabet - lang.alphabet
     if not extra:
         return lang
     dfa = lang.dfa
     table = tuple(row + (DEAD,) for row in dfa.table)
-    wider = DFA(universe, dfa.classes + (extra,), table, dfa.accepting)
+    wider = DFA(alphabet, dfa.classes + (extra,), table, dfa.accepting)
     return Language(minimise(wider), pattern=lang.pattern, flags=lang.flags,
-                    universe_name=universe.describe())
+                    alphabet_name=alphabet.describe())

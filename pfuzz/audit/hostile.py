@@ -32,7 +32,7 @@ BYTE_ORDER_MARK = "\ufeff"
 DIGIT_ZEROS = (0x0660, 0x0966, 0xFF10)
 FULL_WIDTH_OFFSET = 0xFF21 - ord("A")  # FULLWIDTH LATIN CAPITAL LETTER A is U+FF21
 
-#: Every character a hostile variant may write (the audit widens its universe by these).
+#: Every character a hostile variant may write (the audit widens its alphabet by these).
 HOSTILE_CHARACTERS = CharSet.of(
     [(ord(c), ord(c)) for c in "\n\r\t " + NO_BREAK_SPACE + ZERO_WIDTH_SPACE + BYTE_ORDER_MARK]
     + [(zero, zero + 9) for zero in DIGIT_ZEROS]

@@ -1,7 +1,7 @@
 """Auditing a validator against a specification language.
 
 The specification is a ``Language`` (a ``--pattern`` or a profile field); its
-universe says which characters a valid string may hold, and every string with
+alphabet says which characters a valid string may hold, and every string with
 any other character is invalid. The audit writes cases from the
 specification's automata, asks the validator about each, and reports every
 disagreement: a *wrong reject* (a valid string refused) or a *wrong accept*
@@ -15,8 +15,8 @@ Cases, in the order they are made (a text made twice keeps its first category):
    and CRs, spaces around the value, other scripts' digits, full-width
    letters, no-break and zero-width spaces) of a few valid witnesses;
 3. ``case-flip``: those witnesses with a letter in the other case;
-4. near-miss rejects (``pfuzz.nearmiss.rejects``) drawn over the *audit universe*,
-   the specification's universe widened by ``reject_universe`` (default
+4. near-miss rejects (``pfuzz.nearmiss.rejects``) drawn over the *audit alphabet*,
+   the specification's alphabet widened by ``reject_alphabet`` (default
    Latin-1: control characters, tab, CR, LF, no-break space, accented letters)
    and by the hostile characters: one in ``EDGE_SHARE`` from the range-edge
    near-misses (category ``range-edge``), the rest in equal shares drawn
@@ -26,12 +26,12 @@ Cases, in the order they are made (a text made twice keeps its first category):
 5. ``valid``: strings sampled uniformly by length from the specification.
 
 Every case's expected verdict is the specification's own (extended to the
-audit universe by ``pfuzz.audit.comparison.lift``); hostile variants and case flips
+audit alphabet by ``pfuzz.audit.comparison.lift``); hostile variants and case flips
 that the specification accepts are dropped. All random choices flow from one
 seeded source: the same seed and specification give the same cases.
 
 A regular-expression target is also compared exactly: its language in the
-user's call mode against the specification over the audit universe, reported
+user's call mode against the specification over the audit alphabet, reported
 as the two difference languages (``pfuzz.audit.comparison``).
 
 Cost: building the cases is dominated by the near-miss automata (one per
@@ -40,7 +40,7 @@ defaults a whole ``pfuzz audit`` run of a typical field pattern takes about
 0.3 s (measured). Limits: a large specification costs more: the 968-state
 password field of ``profiles/password-policy.toml`` takes about 4 s, 2.6 s of
 it for the range-edge near-misses (a 15,034-state automaton over the audit
-universe: 1.1 s to build, 1.3 s to set up its exact count tables).
+alphabet: 1.1 s to build, 1.3 s to set up its exact count tables).
 A Python target runs in this process without a timeout.
 """
 
@@ -55,13 +55,13 @@ from pfuzz.errors import EmptyLanguageError, PatternError, StateLimitError
 from pfuzz.audit.hostile import HOSTILE_CHARACTERS, Variant, case_flips, hostile_variants
 from pfuzz.language import Language
 from pfuzz.audit.targets import RegexTarget, Verdict
-from pfuzz.syntax.alphabet import resolve_universe
+from pfuzz.syntax.alphabet import resolve_alphabet
 
 DEFAULT_VALID = 1_000
 DEFAULT_REJECTS = 1_000
 #: One near-miss reject in this many is drawn from the range-edge near-misses.
 EDGE_SHARE = 4
-DEFAULT_REJECT_UNIVERSE = "latin1"
+DEFAULT_REJECT_ALPHABET = "latin1"
 #: Valid strings that hostile variants and case flips are made from.
 WITNESSES = 8
 EDIT_KINDS = ("delete", "insert", "replace", "swap")
@@ -97,7 +97,7 @@ class Settings:
     seed: int = 0
     distance: int = 1
     kinds: tuple[str, ...] = EDIT_KINDS
-    reject_universe: str = DEFAULT_REJECT_UNIVERSE
+    reject_alphabet: str = DEFAULT_REJECT_ALPHABET
     boundary: bool = True
     hostile: bool = True
     case_flip: bool = True
@@ -123,8 +123,8 @@ class AuditReport:
 
     spec: str
     target: str
-    universe: str
-    audit_universe: CharSet
+    alphabet: str
+    audit_alphabet: CharSet
     settings: Settings
     cases: list[AuditCase]
     verdicts: list[Verdict]
@@ -180,9 +180,9 @@ def _rank(category: str) -> int:
 
 # -- making the cases -----------------------------------------------------------------
 
-def audit_universe(spec_universe: CharSet, reject_universe: str) -> CharSet:
-    """The specification's universe widened by the reject universe and the hostile characters."""
-    return spec_universe | resolve_universe(reject_universe) | HOSTILE_CHARACTERS
+def audit_alphabet(spec_alphabet: CharSet, reject_alphabet: str) -> CharSet:
+    """The specification's alphabet widened by the reject alphabet and the hostile characters."""
+    return spec_alphabet | resolve_alphabet(reject_alphabet) | HOSTILE_CHARACTERS
 
 
 def stages(settings: Settings, exact: bool = False) -> list[str]:
@@ -205,7 +205,7 @@ def build_cases(spec: Language, settings: Settings = Settings(),
     """
     if spec.is_empty():
         raise EmptyLanguageError("the specification accepts no string: there is nothing to audit")
-    wide = lift(spec, audit_universe(spec.universe, settings.reject_universe))
+    wide = lift(spec, audit_alphabet(spec.alphabet, settings.reject_alphabet))
     rng = randomness.source(settings.seed)
     notes: list[str] = []
     boundary = []
@@ -308,20 +308,20 @@ def run_audit(spec: Language, target, settings: Settings = Settings(), *,
     cases, notes = build_cases(spec, settings, progress)
     progress("running the validator")
     verdicts = target.run([c.text for c in cases])
-    wide_universe = audit_universe(spec.universe, settings.reject_universe)
+    wide_alphabet = audit_alphabet(spec.alphabet, settings.reject_alphabet)
     report = AuditReport(spec_label or spec.pattern or "specification", target.label,
-                         spec.universe_name, wide_universe, settings, cases, verdicts, notes=notes)
+                         spec.alphabet_name, wide_alphabet, settings, cases, verdicts, notes=notes)
     if isinstance(target, RegexTarget):
         progress("exact comparison")
-        report.exact, report.exact_note = exact_comparison(spec, target, wide_universe)
+        report.exact, report.exact_note = exact_comparison(spec, target, wide_alphabet)
     return report
 
 
 def exact_comparison(spec: Language, target: RegexTarget,
-                     universe: CharSet) -> tuple[Comparison | None, str]:
+                     alphabet: CharSet) -> tuple[Comparison | None, str]:
     """Specification − validator (wrong rejects) and validator − specification (wrong accepts)."""
     try:
-        accepted = target.language(universe)
+        accepted = target.language(alphabet)
     except (PatternError, StateLimitError) as error:
         return None, f"no exact comparison: pfuzz cannot compile the validator's regex ({error})"
-    return compare(lift(spec, universe), accepted), ""
+    return compare(lift(spec, alphabet), accepted), ""

@@ -191,12 +191,12 @@ class RegexTarget:
     def run(self, texts: list[str]) -> list[Verdict]:
         return [Verdict(self._call(text) is not None) for text in texts]
 
-    def language(self, universe):
-        """The exact language this call accepts over ``universe`` (a PatternError if not regular).
+    def language(self, alphabet):
+        """The exact language this call accepts over ``alphabet`` (a PatternError if not regular).
 
         The compiler models the call mode itself (``re.match`` is the full match
         of ``R(?s:.*)``, so ``R$`` keeps its meaning), which L(R)·U* would not.
         """
         from pfuzz.language import compile as compile_pattern
 
-        return compile_pattern(self.pattern, universe, mode=self.mode)
+        return compile_pattern(self.pattern, alphabet, mode=self.mode)

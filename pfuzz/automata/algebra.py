@@ -10,7 +10,7 @@ Constructions, each with its source:
   over the common refinement of the two class partitions; ``complement`` by
   completion and flipping acceptance.
 - ``concatenate``: the subset construction over the second automaton's
-  states, entered whenever the first accepts; ``with_any_suffix`` is L·universe*.
+  states, entered whenever the first accepts; ``with_any_suffix`` is L·alphabet*.
 - ``distinguish``: breadth-first search of the product, characters in
   increasing order, which finds the shortlex-least string in the symmetric
   difference; ``shortest`` and ``min_length`` ask it against the empty language.
@@ -22,7 +22,7 @@ Constructions, each with its source:
 Cost: the products are O(states_a × states_b × classes) steps in pure Python
 (about a microsecond per table cell) before minimisation; ``distinguish`` visits
 each reachable pair at most once; the length questions are O(states × classes).
-Limits: operands must share one universe (``ArgumentError`` otherwise); products
+Limits: operands must share one alphabet (``ArgumentError`` otherwise); products
 stop with ``StateLimitError`` past the state cap.
 """
 
@@ -37,9 +37,9 @@ from pfuzz.errors import ArgumentError
 
 def _common_classes(a: DFA, b: DFA) -> tuple[list[CharSet], list[int], list[int]]:
     """Refine both partitions; return classes and, per class, a's and b's class index."""
-    if a.universe != b.universe:
-        raise ArgumentError("languages over different universes cannot be combined")
-    classes = partition(list(a.classes) + list(b.classes), a.universe)
+    if a.alphabet != b.alphabet:
+        raise ArgumentError("languages over different alphabets cannot be combined")
+    classes = partition(list(a.classes) + list(b.classes), a.alphabet)
     return classes, [a.class_of(c.min) for c in classes], [b.class_of(c.min) for c in classes]
 
 
@@ -56,7 +56,7 @@ def product(a: DFA, b: DFA, accept: Callable[[bool, bool], bool], cap: int = DEF
     def is_accepting(pair):
         return accept(pair[0] in a.accepting, pair[1] in b.accepting)
 
-    return minimise(explore((0, 0), step, is_accepting, classes, a.universe, cap))
+    return minimise(explore((0, 0), step, is_accepting, classes, a.alphabet, cap))
 
 
 def intersection(a: DFA, b: DFA) -> DFA:
@@ -76,14 +76,14 @@ def symmetric_difference(a: DFA, b: DFA) -> DFA:
 
 
 def complement(dfa: DFA) -> DFA:
-    """Minimal DFA of universe* minus L."""
+    """Minimal DFA of alphabet* minus L."""
     def step(s, c):
         return dfa.table[s][c] if s >= 0 else DEAD
 
     def is_accepting(s):
         return s not in dfa.accepting
 
-    return minimise(explore(0, step, is_accepting, dfa.classes, dfa.universe))
+    return minimise(explore(0, step, is_accepting, dfa.classes, dfa.alphabet))
 
 
 def concatenate(a: DFA, b: DFA, cap: int = DEFAULT_STATE_CAP) -> DFA:
@@ -105,12 +105,12 @@ def concatenate(a: DFA, b: DFA, cap: int = DEFAULT_STATE_CAP) -> DFA:
         return any(t in b.accepting for t in config[1])
 
     start = enter(0, frozenset())
-    return minimise(explore(start, step, is_accepting, classes, a.universe, cap))
+    return minimise(explore(start, step, is_accepting, classes, a.alphabet, cap))
 
 
 def with_any_suffix(dfa: DFA) -> DFA:
-    """Minimal DFA of L·universe* (strings with a prefix in L)."""
-    return concatenate(dfa, universal(dfa.universe))
+    """Minimal DFA of L·alphabet* (strings with a prefix in L)."""
+    return concatenate(dfa, universal(dfa.alphabet))
 
 
 # -- questions ---------------------------------------------------------------------
@@ -148,7 +148,7 @@ def _path(parent: dict, node) -> str:
 
 def shortest(dfa: DFA) -> Optional[str]:
     """The shortlex-least accepted string, or None for the empty language."""
-    return distinguish(dfa, empty(dfa.universe))
+    return distinguish(dfa, empty(dfa.alphabet))
 
 
 def min_length(dfa: DFA) -> Optional[int]:

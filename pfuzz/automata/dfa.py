@@ -1,7 +1,7 @@
 """Deterministic finite automata over symbol classes: the value, its construction, minimisation.
 
-A ``DFA`` is an immutable value: a universe (the alphabet, a ``CharSet``), a
-partition of that universe into disjoint symbol classes, and a *partial*
+A ``DFA`` is an immutable value: an alphabet (the alphabet, a ``CharSet``), a
+partition of that alphabet into disjoint symbol classes, and a *partial*
 transition table ``table[state][class] -> state`` where ``-1`` is the implicit
 dead state. State 0 is the start state. Working over classes instead of
 characters keeps ``[^x]`` or ``\\w`` over all of Unicode at a handful of
@@ -25,7 +25,7 @@ Constructions, each with its source:
   STACS 2008) the simple way, at the cost of one extra state. Classes that
   every state treats alike are then merged, and states renumbered
   canonically (breadth-first from the start, classes in order of their
-  smallest character), so equal languages over equal universes give equal
+  smallest character), so equal languages over equal alphabets give equal
   values.
 - ``from_strings``: the trie of a finite set of words, explored and minimised.
 
@@ -53,9 +53,9 @@ DEAD = -1
 
 @dataclass(frozen=True, eq=False)
 class DFA:
-    """A partial DFA over disjoint symbol classes that partition ``universe``."""
+    """A partial DFA over disjoint symbol classes that partition ``alphabet``."""
 
-    universe: CharSet
+    alphabet: CharSet
     classes: tuple[CharSet, ...]
     table: tuple[tuple[int, ...], ...]
     accepting: frozenset[int]
@@ -82,7 +82,7 @@ class DFA:
         return 0
 
     def class_of(self, char: str | int) -> int:
-        """Index of the class holding ``char``, or -1 when it is outside the universe."""
+        """Index of the class holding ``char``, or -1 when it is outside the alphabet."""
         point = char if isinstance(char, int) else ord(char)
         starts, owners = self._index
         i = bisect.bisect_right(starts, point) - 1
@@ -109,7 +109,7 @@ class DFA:
 
     def signature(self) -> tuple:
         """A hashable value equal for equal (canonical) automata."""
-        return (self.universe.ranges, tuple(c.ranges for c in self.classes), self.table,
+        return (self.alphabet.ranges, tuple(c.ranges for c in self.classes), self.table,
                 tuple(sorted(self.accepting)))
 
     def __eq__(self, other):
@@ -167,7 +167,7 @@ def explore(
     step: Callable[[Hashable, int], Optional[Hashable]],
     is_accepting: Callable[[Hashable], bool],
     classes: Iterable[CharSet],
-    universe: CharSet,
+    alphabet: CharSet,
     cap: int = DEFAULT_STATE_CAP,
 ) -> DFA:
     """Build the DFA reachable from ``start`` (subset construction, generalised).
@@ -206,33 +206,33 @@ def explore(
             row.append(j)
         rows.append(tuple(row))
         i += 1
-    return DFA(universe, classes, tuple(rows), frozenset(accepting))
+    return DFA(alphabet, classes, tuple(rows), frozenset(accepting))
 
 
-def empty(universe: CharSet) -> DFA:
-    """The DFA of the empty language over ``universe``."""
-    classes = (universe,) if universe else ()
-    return DFA(universe, classes, ((DEAD,) * len(classes),), frozenset())
+def empty(alphabet: CharSet) -> DFA:
+    """The DFA of the empty language over ``alphabet``."""
+    classes = (alphabet,) if alphabet else ()
+    return DFA(alphabet, classes, ((DEAD,) * len(classes),), frozenset())
 
 
-def universal(universe: CharSet) -> DFA:
-    """The DFA of universe* (every string)."""
-    classes = (universe,) if universe else ()
-    return DFA(universe, classes, ((0,) * len(classes),), frozenset({0}))
+def universal(alphabet: CharSet) -> DFA:
+    """The DFA of alphabet* (every string)."""
+    classes = (alphabet,) if alphabet else ()
+    return DFA(alphabet, classes, ((0,) * len(classes),), frozenset({0}))
 
 
-def from_strings(strings: Iterable[str], universe: CharSet) -> DFA:
-    """The minimal DFA of a finite set of strings (those inside the universe)."""
-    words = [w for w in strings if all(ch in universe for ch in w)]
+def from_strings(strings: Iterable[str], alphabet: CharSet) -> DFA:
+    """The minimal DFA of a finite set of strings (those inside the alphabet)."""
+    words = [w for w in strings if all(ch in alphabet for ch in w)]
     chars = {ord(ch) for w in words for ch in w}
-    classes = partition([CharSet.single(p) for p in chars], universe)
+    classes = partition([CharSet.single(p) for p in chars], alphabet)
     probe = [c.min for c in classes]
 
     def step(prefix, c):
         nxt = prefix + chr(probe[c])
         return nxt if any(w.startswith(nxt) for w in words) else None
 
-    return minimise(explore("", step, lambda p: p in words, classes, universe))
+    return minimise(explore("", step, lambda p: p in words, classes, alphabet))
 
 
 # -- minimisation ---------------------------------------------------------------
@@ -241,7 +241,7 @@ def trim(dfa: DFA) -> DFA:
     """Redirect transitions into states that cannot reach acceptance to the dead state."""
     live = dfa.live_states()
     table = tuple(tuple(t if t in live else DEAD for t in row) for row in dfa.table)
-    return _renumber(DFA(dfa.universe, dfa.classes, table, dfa.accepting))
+    return _renumber(DFA(dfa.alphabet, dfa.classes, table, dfa.accepting))
 
 
 def _renumber(dfa: DFA) -> DFA:
@@ -258,7 +258,7 @@ def _renumber(dfa: DFA) -> DFA:
                 queue.append(t)
     table = tuple(tuple(order[t] if t >= 0 else DEAD for t in dfa.table[s]) for s in seen)
     accepting = frozenset(order[s] for s in seen if s in dfa.accepting)
-    return DFA(dfa.universe, dfa.classes, table, accepting)
+    return DFA(dfa.alphabet, dfa.classes, table, accepting)
 
 
 def _hopcroft_blocks(dfa: DFA) -> list[int]:
@@ -362,7 +362,7 @@ def minimise(dfa: DFA) -> DFA:
     """The canonical minimal partial DFA of the same language."""
     dfa = trim(dfa)
     if not dfa.accepting:
-        return empty(dfa.universe)
+        return empty(dfa.alphabet)
     block_of = _moore_blocks(dfa, MOORE_BUDGET) if dfa.n_states > 64 else None
     if block_of is None:
         block_of = _hopcroft_blocks(dfa)
@@ -378,7 +378,7 @@ def minimise(dfa: DFA) -> DFA:
     )
     accepting = frozenset(index[block_of[s]] for s in dfa.accepting)
     # State 0 is the first representative, so the start block is already block 0.
-    merged = DFA(dfa.universe, dfa.classes, table, accepting)
+    merged = DFA(dfa.alphabet, dfa.classes, table, accepting)
     return _renumber(merge_classes(merged))
 
 
@@ -392,4 +392,4 @@ def merge_classes(dfa: DFA) -> DFA:
     groups.sort(key=lambda g: g[0].min)
     classes = tuple(g[0] for g in groups)
     table = tuple(tuple(g[1][s] for g in groups) for s in range(dfa.n_states))
-    return DFA(dfa.universe, classes, table, dfa.accepting)
+    return DFA(dfa.alphabet, classes, table, dfa.accepting)

@@ -4,7 +4,7 @@ States are drawn as circles (accepting states as double circles), with an
 arrow into the start state from a point; the dead state is left out. All the
 symbol classes leading from one state to the same next state are merged into
 one edge (``pfuzz.automata.dfa.transitions``), labelled with the shortest ``re`` class text for
-their union over the universe (``pfuzz.automata.expression.class_text``: ``[0-9]``, ``[^,]``, ``.``).
+their union over the alphabet (``pfuzz.automata.expression.class_text``: ``[0-9]``, ``[^,]``, ``.``).
 DOT is the Graphviz language (graphviz.org/doc/info/lang.html); SVG needs the
 Graphviz ``dot`` program on the PATH, run as a subprocess.
 
@@ -44,7 +44,7 @@ def to_dot(dfa: DFA, title: str | None = None) -> str:
         shape = ", shape=doublecircle" if s in dfa.accepting else ""
         lines.append(f'  s{s} [label="{s}"{shape}];')
     for s, row in enumerate(transitions(dfa)):
-        lines.extend(f"  s{s} -> s{t} [label={_quoted(class_text(label, dfa.universe))}];"
+        lines.extend(f"  s{s} -> s{t} [label={_quoted(class_text(label, dfa.alphabet))}];"
                      for label, t in row)
     lines.append("}")
     return "\n".join(lines) + "\n"

@@ -12,7 +12,7 @@ The expressions simplify themselves as they are built (``pfuzz.automata.expressi
 so counted repeats come back as ``x{m,n}`` and finite sets as factored
 alternatives.
 
-The result is exact (it denotes the same language over the universe as the
+The result is exact (it denotes the same language over the alphabet as the
 DFA, with flags 0) but not minimal: state elimination is order-dependent and
 the shortest pattern of a language is hard to find in general; languages such
 as ``(a|b)*a(a|b){k}`` have no short expression this method finds. Cost:
@@ -44,7 +44,7 @@ WORK_BUDGET = 2_000_000
 # -- state elimination ----------------------------------------------------------------
 
 def pattern_of(dfa: DFA, limit: int | None = None) -> str | None:
-    """A Python ``re`` pattern (flags 0) for the DFA's language over its universe.
+    """A Python ``re`` pattern (flags 0) for the DFA's language over its alphabet.
 
     Returns None when the pattern found is longer than ``limit`` characters
     (default ``DEFAULT_LIMIT``). The empty language gives ``NOTHING_TEXT``;
@@ -53,7 +53,7 @@ def pattern_of(dfa: DFA, limit: int | None = None) -> str | None:
     limit = DEFAULT_LIMIT if limit is None else limit
     if (dfa.n_states - 1) * NODE_CHARGE > WORK_BUDGET:
         return None  # every state but the start has an incoming edge: over budget already
-    algebra = Algebra(dfa.universe, work_limit=max(limit, 64) * WORK_FACTOR, budget=WORK_BUDGET)
+    algebra = Algebra(dfa.alphabet, work_limit=max(limit, 64) * WORK_FACTOR, budget=WORK_BUDGET)
     try:
         text = algebra.polish(eliminate(dfa, algebra)).text
     except TooLarge:

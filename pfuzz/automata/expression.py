@@ -6,9 +6,9 @@ preserving the language exactly:
 
 - ε/∅ algebra (∅ absorbs concatenation and vanishes from alternation, ε is
   the unit of concatenation, ``ε|x`` is ``x?``), flattening, deduplication;
-- character alternatives merge into one class, written over the universe as
+- character alternatives merge into one class, written over the alphabet as
   ``[...]`` ranges or a negated ``[^...]`` class, whichever is shorter
-  (gaps holding no character of the universe are bridged);
+  (gaps holding no character of the alphabet are bridged);
 - runs ``x{a,b} x{c,d}`` merge into ``x{a+c,b+d}``; nested counts
   ``(x{a,b}){c,d}`` merge into ``x{ac,bd}`` when no count is skipped;
   alternatives ``x{a,b}|x{c,d}`` with touching count ranges merge;
@@ -154,11 +154,11 @@ def _gap_free(inner_lo: int, inner_hi: int | None, lo: int, hi: int | None) -> b
 
 
 class Algebra:
-    """Smart constructors over one universe (class texts depend on it)."""
+    """Smart constructors over one alphabet (class texts depend on it)."""
 
-    def __init__(self, universe: CharSet, work_limit: int | None = None,
+    def __init__(self, alphabet: CharSet, work_limit: int | None = None,
                  budget: int | None = None):
-        self.universe = universe
+        self.alphabet = alphabet
         self.work_limit = work_limit
         self.budget = budget
         self._alts: dict[tuple[str, ...], Expr] = {}  # alternation is the costly step: memoised
@@ -175,7 +175,7 @@ class Algebra:
 
     # -- atoms ------------------------------------------------------------------
     def sym(self, chars: CharSet) -> Expr:
-        return Sym(chars, class_text(chars, self.universe)) if chars else NOTHING
+        return Sym(chars, class_text(chars, self.alphabet)) if chars else NOTHING
 
     # -- repetition -------------------------------------------------------------
     def rep(self, base: Expr, lo: int, hi: int | None) -> Expr:
@@ -367,26 +367,26 @@ def _class_body(ranges) -> str:
     return "".join(parts)
 
 
-def _bridge(chars: CharSet, universe: CharSet) -> list[tuple[int, int]]:
-    """Ranges of ``chars``, joined across gaps holding no character of the universe."""
+def _bridge(chars: CharSet, alphabet: CharSet) -> list[tuple[int, int]]:
+    """Ranges of ``chars``, joined across gaps holding no character of the alphabet."""
     out: list[list[int]] = []
     for lo, hi in chars.ranges:
-        if out and not (CharSet.range(out[-1][1] + 1, lo - 1) & universe):
+        if out and not (CharSet.range(out[-1][1] + 1, lo - 1) & alphabet):
             out[-1][1] = hi
         else:
             out.append([lo, hi])
     return [(lo, hi) for lo, hi in out]
 
 
-def class_text(chars: CharSet, universe: CharSet) -> str:
-    """The shortest of a literal, ``[...]``, ``[^...]`` or ``.`` that means ``chars`` within the universe."""
-    chars = chars & universe
+def class_text(chars: CharSet, alphabet: CharSet) -> str:
+    """The shortest of a literal, ``[...]``, ``[^...]`` or ``.`` that means ``chars`` within the alphabet."""
+    chars = chars & alphabet
     if len(chars.ranges) == 1 and chars.min == chars.max:
         return escape_char(chars.min)
-    candidates = [f"[{_class_body(_bridge(chars, universe))}]"]
-    others = universe - chars
+    candidates = [f"[{_class_body(_bridge(chars, alphabet))}]"]
+    others = alphabet - chars
     if others:
-        candidates.append(f"[^{_class_body(_bridge(others, universe))}]")
-    if chars == universe - CharSet.single("\n"):
+        candidates.append(f"[^{_class_body(_bridge(others, alphabet))}]")
+    if chars == alphabet - CharSet.single("\n"):
         candidates.append(".")
     return min(candidates, key=len)

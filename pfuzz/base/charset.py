@@ -7,7 +7,7 @@ sets into the coarsest family of disjoint classes such that every input set is
 a union of classes (a sweep over the sorted range boundaries, O(b log b) for b
 boundaries); automata then label their transitions with class indexes.
 
-The named universes (the alphabets pfuzz works over) live here too, so that
+The named alphabets (the alphabets pfuzz works over) live here too, so that
 there is one place that says what "printable" means.
 """
 
@@ -187,28 +187,28 @@ def _show(point: int) -> str:
 EMPTY = CharSet()
 ALL = CharSet(((0, MAX_CODE_POINT),))
 
-#: The named universes. The default is printable ASCII (95 characters).
-UNIVERSES: dict[str, CharSet] = {
+#: The named alphabets. The default is printable ASCII (95 characters).
+ALPHABETS: dict[str, CharSet] = {
     "printable": CharSet(((0x20, 0x7E),)),
     "ascii": CharSet(((0x00, 0x7F),)),
     "latin1": CharSet(((0x00, 0xFF),)),
     "bmp": CharSet(((0x0000, SURROGATES[0] - 1), (SURROGATES[1] + 1, 0xFFFF))),
     "unicode": CharSet(((0x0000, SURROGATES[0] - 1), (SURROGATES[1] + 1, MAX_CODE_POINT))),
 }
-DEFAULT_UNIVERSE = "printable"
+DEFAULT_ALPHABET = "printable"
 
 
-def partition(sets: Iterable[CharSet], universe: CharSet) -> list[CharSet]:
-    """Split ``universe`` into the coarsest disjoint classes refining every set.
+def partition(sets: Iterable[CharSet], alphabet: CharSet) -> list[CharSet]:
+    """Split ``alphabet`` into the coarsest disjoint classes refining every set.
 
-    Each returned class lies inside the universe, the classes cover the whole
-    universe, and every input set meets each class either fully or not at all.
+    Each returned class lies inside the alphabet, the classes cover the whole
+    alphabet, and every input set meets each class either fully or not at all.
     Classes are ordered by their smallest code point, so the output is
     deterministic.
     """
-    sets = [s & universe for s in sets]
-    points = {universe.min, universe.max + 1} if universe else set()
-    for s in [universe, *sets]:
+    sets = [s & alphabet for s in sets]
+    points = {alphabet.min, alphabet.max + 1} if alphabet else set()
+    for s in [alphabet, *sets]:
         for lo, hi in s.ranges:
             points.add(lo)
             points.add(hi + 1)
@@ -217,7 +217,7 @@ def partition(sets: Iterable[CharSet], universe: CharSet) -> list[CharSet]:
     cursors = [0] * len(sets)
     for k in range(len(bounds) - 1):
         lo, hi = bounds[k], bounds[k + 1] - 1
-        if lo not in universe:
+        if lo not in alphabet:
             continue
         signature = []
         for i, s in enumerate(sets):

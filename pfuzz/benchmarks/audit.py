@@ -1,7 +1,7 @@
 """Audits: wall time, CPU time and peak memory of a default audit of a Python validator.
 
 Each case is what ``pfuzz audit --pattern P --target module:function`` does,
-made through the library (``pfuzz.compile`` over the default universe, then
+made through the library (``pfuzz.compile`` over the default alphabet, then
 ``pfuzz.audit.run.run_audit`` with the default ``Settings``: the whole boundary
 suite, hostile variants, case flips, 1,000 near-miss rejects and 1,000 valid
 strings), against a fixture validator of ``tests/fixtures/validators`` (each

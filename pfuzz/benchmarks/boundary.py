@@ -41,8 +41,8 @@ FAMILY = r"(a|b)*a(a|b){%d}"
 
 def _languages(quick: bool):
     """(label, Language) for every case, in report order."""
-    for pattern, universe in REALISTIC + LARGE:
-        yield pattern, compile_language(pattern, universe)
+    for pattern, alphabet in REALISTIC + LARGE:
+        yield pattern, compile_language(pattern, alphabet)
     for field in load_profile(POLICY).fields:
         yield f"password-policy.toml: {field.name}", field.language()
     for k in (6, 10) if quick else (6, 10, 12):

@@ -11,7 +11,7 @@ from __future__ import annotations
 import time
 
 from pfuzz.automata.construction.compiler import compile_dfa
-from pfuzz.syntax.alphabet import resolve_universe
+from pfuzz.syntax.alphabet import resolve_alphabet
 
 PASSWORD = r"^(?=.*\d)(?=.*[a-z])(?=.*[A-Z])(?=.*[!#$%&*+\-.?@^_~])(?=.{8,64}$).*$"
 PASSWORD_5 = r"^(?=.*\d)(?=.*[a-z])(?=.*[A-Z])(?=.*[!#$%&*+\-.?@^_~])(?!.* )(?=.{8,64}$).*$"
@@ -32,11 +32,11 @@ PATTERNS = [
 FAMILY = r"(a|b)*a(a|b){%d}"
 
 
-def _best_ms(pattern: str, universe, runs: int) -> tuple[float, object]:
+def _best_ms(pattern: str, alphabet, runs: int) -> tuple[float, object]:
     best, dfa = float("inf"), None
     for _ in range(runs):
         start = time.process_time()
-        dfa = compile_dfa(pattern, universe)
+        dfa = compile_dfa(pattern, alphabet)
         best = min(best, time.process_time() - start)
     return best * 1000, dfa
 
@@ -46,12 +46,12 @@ def run(quick: bool) -> list[dict]:
     if quick:
         cases = cases[:-1]
     rows = []
-    for pattern, universe_name in cases:
-        universe = resolve_universe(universe_name)
-        compile_dfa(pattern, universe)
+    for pattern, alphabet_name in cases:
+        alphabet = resolve_alphabet(alphabet_name)
+        compile_dfa(pattern, alphabet)
         runs = 1 if quick or "{16}" in pattern else 3
-        ms, dfa = _best_ms(pattern, universe, runs)
+        ms, dfa = _best_ms(pattern, alphabet, runs)
         rows.append({"pattern": pattern if len(pattern) <= 48 else pattern[:45] + "...",
-                     "universe": universe_name, "states": dfa.n_states,
+                     "alphabet": alphabet_name, "states": dfa.n_states,
                      "classes": len(dfa.classes), "ms": f"{ms:.1f}"})
     return rows

@@ -21,7 +21,7 @@ import time
 
 from pfuzz.nearmiss import rejects as nearmiss
 from pfuzz.automata.construction.compiler import compile_dfa
-from pfuzz.syntax.alphabet import resolve_universe
+from pfuzz.syntax.alphabet import resolve_alphabet
 from pfuzz.nearmiss.witness import nearest
 
 DATE = (r"(?:(?:[0-9]{2}(?:0[48]|[2468][048]|[13579][26])|(?:0[48]|[2468][048]|[13579][26])00)"
@@ -72,14 +72,14 @@ def _rejects(dfa, n: int) -> dict:
 
 
 def run(quick: bool) -> list[dict]:
-    universe = resolve_universe("printable")
+    alphabet = resolve_alphabet("printable")
     runs = 1 if quick else 3
     n = 10_000 if quick else 100_000
     rows = []
     for name, pattern, distances, draw in CASES:
         if quick and not draw:
             continue
-        dfa = compile_dfa(pattern, universe)
+        dfa = compile_dfa(pattern, alphabet)
         row = {"pattern": name, "states": dfa.n_states, "classes": len(dfa.classes)}
         for d in distances:
             ms, states = _build_ms(dfa, d, 1 if name in SLOW else runs)

@@ -19,7 +19,7 @@ dropped and its reason joined to the first, which keeps its category):
    character repeated). Any string of an invalid length is rejected.
 4. ``range-edge``: for each code-point range of each transition's label
    (states in breadth-first order, their transitions by smallest character):
-   the character just below the range (when it is in the universe and leads to
+   the character just below the range (when it is in the alphabet and leads to
    rejection there), the low end, the high end, the character just above
    (same condition). Each is built as the shortest valid prefix reaching the
    state + the edge character + the shortest completion from the transition's
@@ -37,7 +37,7 @@ dropped and its reason joined to the first, which keeps its category):
    one of the transitions that complete the last condition.
 6. ``exit``: for each distinct pair (set of allowed next characters, whether
    the string so far is valid) among the states where some character of the
-   universe leads to rejection, one reject that leaves the language at the
+   alphabet leads to rejection, one reject that leaves the language at the
    first such state: the shortest valid
    string through the state with its next character replaced by a rejected
    one (one not adjacent to an allowed character when there is such, else the
@@ -46,7 +46,7 @@ dropped and its reason joined to the first, which keeps its category):
 A *transition* is a pair of live states (s, t) with its label, the set of all
 characters leading from s to t (the union of the symbol classes that do so);
 only live states (those that can still reach acceptance) count. Positions in
-reasons count from 1. Characters outside the universe are never used.
+reasons count from 1. Characters outside the alphabet are never used.
 
 Length bound: ``max_length`` bounds the ``longest`` case and the scan for
 length edges. By default it is the language's longest length for a finite
@@ -62,7 +62,7 @@ ranges) and the output itself, O(cases × case length). Measured (one core):
 1-5 ms for realistic validator patterns of 15-260 states; about 40 ms for
 the password-policy fields (513 and 968 states, up to 2,767 transitions,
 about 600-740 cover strings); 70 ms for ``(a|b)*a(a|b){10}`` (2,048 states);
-90 ms for ``\\w{3,30}`` over the unicode universe, where ``\\w`` has some 640
+90 ms for ``\\w{3,30}`` over the unicode alphabet, where ``\\w`` has some 640
 ranges and so gives about 2,600 range-edge cases. The empty language gives
 an empty suite.
 """
@@ -143,7 +143,7 @@ def _length_edges(guide: Guide, lengths: Lengths) -> list[Case]:
         if above:
             what = (f"the longest valid string ({n})" if n == lengths.finite_max
                     else f"a valid string of length {n}")
-            extra = text[-1] if text else chr(guide.dfa.universe.min)
+            extra = text[-1] if text else chr(guide.dfa.alphabet.min)
             cases.append(Case(text + extra, False, "length-edge", f"one character longer than {what}"))
     return cases
 
@@ -184,7 +184,7 @@ def _range_edges(guide: Guide) -> list[Case]:
 
 
 def _rejected(guide: Guide, state: int, point: int) -> bool:
-    """True when ``point`` is in the universe and leads from ``state`` to rejection."""
+    """True when ``point`` is in the alphabet and leads from ``state`` to rejection."""
     c = guide.dfa.class_of(point) if 0 <= point <= 0x10FFFF else -1
     return c >= 0 and guide.dfa.table[state][c] not in guide.live
 
@@ -199,10 +199,10 @@ def _coverage_cases(guide: Guide) -> list[Case]:
 
 
 def _exits(guide: Guide) -> list[Case]:
-    universe, cases, done = guide.dfa.universe, [], set()
+    alphabet, cases, done = guide.dfa.alphabet, [], set()
     for s in guide.reachable:
         allowed = guide.allowed(s)
-        rejected = universe - allowed
+        rejected = alphabet - allowed
         key = (allowed, s in guide.dfa.accepting)
         if not rejected or key in done:
             continue

@@ -8,7 +8,7 @@ from pathlib import Path
 
 import click
 
-from pfuzz.audit.run import (DEFAULT_REJECT_UNIVERSE, DEFAULT_REJECTS, DEFAULT_VALID, EDIT_KINDS,
+from pfuzz.audit.run import (DEFAULT_REJECT_ALPHABET, DEFAULT_REJECTS, DEFAULT_VALID, EDIT_KINDS,
                      AuditReport, Settings, run_audit, stages)
 from pfuzz.errors import TargetError
 from pfuzz.audit.targets import DEFAULT_TIMEOUT, MODES, CommandTarget, PythonTarget, RegexTarget
@@ -45,8 +45,8 @@ EXACT_ROWS = 6
               help="Near-miss rejects (a quarter of them range-edge near-misses).")
 @click.option("--distance", type=click.IntRange(1, 3), default=None,
               help="Edit distance of the near-miss rejects. Default: 1 (or the profile field's).")
-@click.option("--reject-universe", default=DEFAULT_REJECT_UNIVERSE, show_default=True,
-              help="Extra characters rejects are drawn over (besides --universe and the hostile ones).")
+@click.option("--reject-alphabet", default=DEFAULT_REJECT_ALPHABET, show_default=True,
+              help="Extra characters rejects are drawn over (besides --alphabet and the hostile ones).")
 @click.option("--no-boundary", is_flag=True, help="Leave out the boundary suite.")
 @click.option("--no-hostile", is_flag=True, help="Leave out the hostile near-misses.")
 @click.option("--no-case-flip", is_flag=True, help="Leave out the case flips.")
@@ -58,15 +58,15 @@ EXACT_ROWS = 6
 @format_option(("text", "json"), "text")
 @out_option
 @report_errors
-def audit(profile, pattern, pattern_file, field, python_target, command, regex, mode, universe,
-          flags, state_cap, min_length, max_length, valid, rejects, distance, reject_universe,
+def audit(profile, pattern, pattern_file, field, python_target, command, regex, mode, alphabet,
+          flags, state_cap, min_length, max_length, valid, rejects, distance, reject_alphabet,
           no_boundary, no_hostile, no_case_flip, timeout, seed, show, fmt, out):
     """Find the strings a validator gets wrong, against a PROFILE field or a --pattern.
 
     Cases: the whole boundary suite, hostile near-misses (a trailing newline,
     tabs, CRs, spaces, other scripts' digits, full-width letters, no-break and
-    zero-width spaces), case flips, near-miss rejects over a wider universe,
-    and valid strings. A string with a character outside --universe is
+    zero-width spaces), case flips, near-miss rejects over a wider alphabet,
+    and valid strings. A string with a character outside --alphabet is
     invalid. A --regex validator is also compared exactly. Exit status: 0 the
     validator agrees on every case, 1 it does not, 2 bad input or a validator
     that crashed, hung or answered short.
@@ -78,10 +78,10 @@ def audit(profile, pattern, pattern_file, field, python_target, command, regex, 
       pfuzz audit profiles/iso-date.toml --cmd 'node check-date.js'
     """
     spec, label, field_distance, kinds = _specification(profile, pattern, pattern_file, field,
-                                                       universe, flags, state_cap)
+                                                       alphabet, flags, state_cap)
     settings = Settings(valid=valid, rejects=rejects, seed=seed,
                         distance=distance or field_distance, kinds=kinds,
-                        reject_universe=reject_universe, boundary=not no_boundary,
+                        reject_alphabet=reject_alphabet, boundary=not no_boundary,
                         hostile=not no_hostile, case_flip=not no_case_flip,
                         min_length=min_length, max_length=max_length)
     target = _target(python_target, command, regex, mode, timeout)
@@ -114,7 +114,7 @@ def _run_with_progress(spec, target, settings, label) -> AuditReport:
     return report
 
 
-def _specification(profile, pattern, pattern_file, field, universe, flags, state_cap):
+def _specification(profile, pattern, pattern_file, field, alphabet, flags, state_cap):
     """(language, label, distance, edit kinds) from exactly one of PROFILE, --pattern, --pattern-file."""
     given = [x for x in (profile, pattern, pattern_file) if x is not None]
     if len(given) != 1:
@@ -124,9 +124,9 @@ def _specification(profile, pattern, pattern_file, field, universe, flags, state
             fail("--field applies to a PROFILE, not to --pattern")
         if pattern_file is not None:
             pattern = read_pattern_file(pattern_file)
-        return compile_language(pattern, universe, flags, state_cap), pattern, 1, EDIT_KINDS
+        return compile_language(pattern, alphabet, flags, state_cap), pattern, 1, EDIT_KINDS
     ctx = click.get_current_context()
-    for name in ("universe", "ignore_case"):
+    for name in ("alphabet", "ignore_case"):
         if ctx.get_parameter_source(name) is not click.core.ParameterSource.DEFAULT:
             fail(f"--{name.replace('_', '-')} applies to --pattern; a profile sets each field's own")
     from pfuzz.profile.loader import load_profile
@@ -179,10 +179,10 @@ def report_dict(report: AuditReport) -> dict:
     s = report.settings
     return {
         "agrees": report.agrees, "specification": report.spec, "validator": report.target,
-        "universe": report.universe, "audit_universe": report.audit_universe.describe(limit=12),
-        "audit_universe_ranges": [list(r) for r in report.audit_universe.ranges],
+        "alphabet": report.alphabet, "audit_alphabet": report.audit_alphabet.describe(limit=12),
+        "audit_alphabet_ranges": [list(r) for r in report.audit_alphabet.ranges],
         "settings": {"seed": s.seed, "valid": s.valid, "rejects": s.rejects, "distance": s.distance,
-                     "kinds": list(s.kinds), "reject_universe": s.reject_universe,
+                     "kinds": list(s.kinds), "reject_alphabet": s.reject_alphabet,
                      "boundary": s.boundary, "hostile": s.hostile, "case_flip": s.case_flip,
                      "min_length": s.min_length, "max_length": s.max_length},
         "summary": report.summary(),
@@ -197,7 +197,7 @@ def report_lines(report: AuditReport, show: int = DEFAULT_SHOW) -> list[str]:
     """The text report: failures by category, the exact comparison, the summary table."""
     findings = report.findings
     total = report.summary()[-1]
-    lines = [f"specification: {report.spec} (universe {report.universe})",
+    lines = [f"specification: {report.spec} (alphabet {report.alphabet})",
              f"validator:     {report.target}",
              f"cases:         {total['cases']:,} (seed {report.settings.seed})", ""]
     lines += [f"note: {note}" for note in report.notes]
@@ -247,7 +247,7 @@ def _exact_lines(report: AuditReport) -> list[str]:
         return ["", report.exact_note] if report.exact_note else []
     titles = ("wrong rejects (only the specification accepts)",
               "wrong accepts (only the validator accepts)")
-    return ["", f"exact comparison over the audit universe {report.audit_universe.describe(limit=4)}",
+    return ["", f"exact comparison over the audit alphabet {report.audit_alphabet.describe(limit=4)}",
             *comparison_lines(report.exact, "the specification", "the validator", EXACT_ROWS, titles)]
 
 

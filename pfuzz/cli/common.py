@@ -1,6 +1,6 @@
 """What every pfuzz command shares: options, pattern input, output and errors.
 
-One option vocabulary for all commands (``--seed``, ``--universe``,
+One option vocabulary for all commands (``--seed``, ``--alphabet``,
 ``--ignore-case``, ``--min-length``, ``--max-length``, ``--format``,
 ``--out``, ``--pattern-file``), defined once here. Commands stay thin: they
 parse options, call the library, and print.
@@ -17,15 +17,15 @@ from typing import NoReturn
 
 import click
 
-from pfuzz.base.charset import DEFAULT_UNIVERSE, UNIVERSES
+from pfuzz.base.charset import DEFAULT_ALPHABET, ALPHABETS
 from pfuzz.automata.dfa import DEFAULT_STATE_CAP
 from pfuzz.errors import EmptyLanguageError, PatternError, PfuzzError
 from pfuzz.base.files import write_atomic
 
 EXIT_OK, EXIT_DIFFERENT, EXIT_USAGE = 0, 1, 2
 
-UNIVERSE_HELP = (f"Characters to work over: {', '.join(UNIVERSES)}, or a class such as "
-                 f"'[a-z0-9]'. Default: {DEFAULT_UNIVERSE} (U+0020-U+007E).")
+ALPHABET_HELP = (f"Characters to work over: {', '.join(ALPHABETS)}, or a class such as "
+                 f"'[a-z0-9]'. Default: {DEFAULT_ALPHABET} (U+0020-U+007E).")
 
 
 def fail(message: str, detail: str = "") -> NoReturn:
@@ -51,7 +51,7 @@ def report_errors(func):
         except EmptyLanguageError as error:
             if (ctx.find_root().obj or {}).get("debug"):
                 raise
-            fail(str(error), _universe_hint(kwargs))
+            fail(str(error), _alphabet_hint(kwargs))
         except (PfuzzError, OSError) as error:
             if (ctx.find_root().obj or {}).get("debug"):
                 raise
@@ -63,18 +63,18 @@ def report_errors(func):
     return wrapper
 
 
-def _universe_hint(options: dict) -> str:
-    """When a pattern is empty only because of the universe, say so.
+def _alphabet_hint(options: dict) -> str:
+    """When a pattern is empty only because of the alphabet, say so.
 
     The empty language may be a derived one (no near-miss rejects of ``.*``):
-    then the pattern itself is not empty over the universe and no hint is given.
+    then the pattern itself is not empty over the alphabet and no hint is given.
     """
-    pattern, universe = options.get("pattern"), options.get("universe")
-    if pattern is None or universe in (None, "unicode"):
+    pattern, alphabet = options.get("pattern"), options.get("alphabet")
+    if pattern is None or alphabet in (None, "unicode"):
         return ""
     flags, cap = options.get("flags", 0), options.get("state_cap", DEFAULT_STATE_CAP)
     try:
-        if not compile_language(pattern, universe, flags, cap).is_empty():
+        if not compile_language(pattern, alphabet, flags, cap).is_empty():
             return ""
         wider = compile_language(pattern, "unicode", flags, cap)
     except PfuzzError:
@@ -83,7 +83,7 @@ def _universe_hint(options: dict) -> str:
         return ""
     example = wider.shortest()
     return (f"  the pattern matches {escape_text(example)!r}, but only with characters outside the "
-            f"universe {universe!r}; widen it, e.g. --universe unicode")
+            f"alphabet {alphabet!r}; widen it, e.g. --alphabet unicode")
 
 
 def pattern_input(func):
@@ -111,8 +111,8 @@ def read_pattern_file(path: Path) -> str:
 
 
 def language_options(func):
-    """--universe, --ignore-case, --state-cap; passes ``universe``, ``flags``, ``state_cap``."""
-    @click.option("--universe", default=DEFAULT_UNIVERSE, show_default=True, help=UNIVERSE_HELP)
+    """--alphabet, --ignore-case, --state-cap; passes ``alphabet``, ``flags``, ``state_cap``."""
+    @click.option("--alphabet", default=DEFAULT_ALPHABET, show_default=True, help=ALPHABET_HELP)
     @click.option("--ignore-case", "-i", is_flag=True, help="Compile as with re.IGNORECASE.")
     @click.option("--state-cap", type=click.IntRange(min=1), default=DEFAULT_STATE_CAP,
                   show_default=True, help="Stop with an error past this many DFA states.")
@@ -122,9 +122,9 @@ def language_options(func):
     return wrapper
 
 
-def compile_language(pattern: str, universe: str, flags: int, state_cap: int):
+def compile_language(pattern: str, alphabet: str, flags: int, state_cap: int):
     from pfuzz.language import Language
-    return Language.compile(pattern, universe, flags, state_cap=state_cap)
+    return Language.compile(pattern, alphabet, flags, state_cap=state_cap)
 
 
 #: Most strings one command may be asked for: far beyond any memory (8 bytes a string

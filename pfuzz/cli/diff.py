@@ -26,7 +26,7 @@ from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, escape_tex
 @format_option(("text", "json"), "text")
 @out_option
 @report_errors
-def diff(patterns, pattern_files, universe, flags, state_cap, max_length, examples, fmt, out):
+def diff(patterns, pattern_files, alphabet, flags, state_cap, max_length, examples, fmt, out):
     """Compare the languages of PATTERN_A and PATTERN_B exactly.
 
     Prints whether they are equal and, for each of A−B (only in A) and B−A
@@ -40,15 +40,15 @@ def diff(patterns, pattern_files, universe, flags, state_cap, max_length, exampl
       pfuzz diff '[A-Z]{2}-[0-9]{4}' --pattern-file implementation.txt
     """
     pattern_a, pattern_b = _two_patterns(patterns, pattern_files)
-    a = compile_language(pattern_a, universe, flags, state_cap)
-    b = compile_language(pattern_b, universe, flags, state_cap)
+    a = compile_language(pattern_a, alphabet, flags, state_cap)
+    b = compile_language(pattern_b, alphabet, flags, state_cap)
     result = compare(a, b, max_length=max_length, examples=examples)
     if fmt == "json":
-        document = {"a": pattern_a, "b": pattern_b, "universe": a.universe_name,
+        document = {"a": pattern_a, "b": pattern_b, "alphabet": a.alphabet_name,
                     **comparison_dict(result)}
         emit(json.dumps(document, ensure_ascii=False, indent=2) + "\n", out)
     else:
-        lines = [f"A: {pattern_a}", f"B: {pattern_b}", f"universe: {a.universe_name}",
+        lines = [f"A: {pattern_a}", f"B: {pattern_b}", f"alphabet: {a.alphabet_name}",
                  *comparison_lines(result)]
         emit("\n".join(lines) + "\n", out)
     sys.exit(EXIT_OK if result.equal else EXIT_DIFFERENT)

@@ -13,7 +13,7 @@ from .common import compile_language, emit, language_options, out_option, patter
 @language_options
 @out_option
 @report_errors
-def draw(pattern, universe, flags, state_cap, out):
+def draw(pattern, alphabet, flags, state_cap, out):
     """Draw the minimal DFA of PATTERN as Graphviz DOT (SVG for an --out FILE.svg).
 
     Accepting states are double circles; each edge is labelled with the
@@ -25,7 +25,7 @@ def draw(pattern, universe, flags, state_cap, out):
       pfuzz draw '[A-Z]{2}-[0-9]{4}' > code.dot
       pfuzz draw '[A-Z]{2}-[0-9]{4}' --out code.svg
     """
-    lang = compile_language(pattern, universe, flags, state_cap)
+    lang = compile_language(pattern, alphabet, flags, state_cap)
     text = to_dot(lang.dfa, title=pattern)
     if out is not None and out.suffix.lower() == ".svg":
         text = to_svg(text)

@@ -16,21 +16,21 @@ from .common import (compile_language, emit, format_option, language_options, ou
 @format_option(("text", "json"), "text")
 @out_option
 @report_errors
-def info(pattern, universe, flags, state_cap, fmt, out):
+def info(pattern, alphabet, flags, state_cap, fmt, out):
     """Describe the minimal DFA of PATTERN: states, classes, lengths.
 
     \b
     Example:
       pfuzz info '[A-Z]{2}-[0-9]{4}'
     """
-    lang = compile_language(pattern, universe, flags, state_cap)
+    lang = compile_language(pattern, alphabet, flags, state_cap)
     facts = describe(lang)
     if fmt == "json":
         emit(json.dumps(facts, ensure_ascii=False, indent=2) + "\n", out)
         return
     rows = [
         ("pattern", pattern),
-        ("universe", facts["universe"]),
+        ("alphabet", facts["alphabet"]),
         ("states", f"{facts['states']} (minimal DFA, dead state not counted)"),
         ("classes", f"{facts['classes']}: {', '.join(facts['class_labels'])}"),
         ("empty", "yes" if facts["empty"] else "no"),
@@ -52,7 +52,7 @@ def describe(lang) -> dict:
     """The facts ``info`` prints, as a plain dict."""
     return {
         "pattern": lang.pattern,
-        "universe": lang.universe_name,
+        "alphabet": lang.alphabet_name,
         "states": lang.states,
         "classes": len(lang.classes),
         "class_labels": [c.describe() for c in lang.classes],

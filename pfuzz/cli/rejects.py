@@ -41,7 +41,7 @@ from .common import render_strings, wants_progress
 @format_option(("text", "jsonl"), "text")
 @out_option
 @report_errors
-def reject(pattern, universe, flags, state_cap, how_many, distance, kinds, edges, seed,
+def reject(pattern, alphabet, flags, state_cap, how_many, distance, kinds, edges, seed,
            min_length, max_length, fmt, out):
     """Write N near-miss rejects of PATTERN: strings it rejects within a few edits of one it accepts.
 
@@ -56,7 +56,7 @@ def reject(pattern, universe, flags, state_cap, how_many, distance, kinds, edges
       pfuzz reject '[A-Z]{2}[0-9]{4}' -n 4 --kind delete --kind swap
       pfuzz reject '[0-9]{4}-[0-9]{2}' -n 100 --edges --format jsonl --out rejects.jsonl
     """
-    lang = compile_language(pattern, universe, flags, state_cap)
+    lang = compile_language(pattern, alphabet, flags, state_cap)
     if min_length is not None and max_length is not None and min_length > max_length:
         fail(f"--min-length {min_length} is greater than --max-length {max_length}")
     asked = list(kinds) or None
@@ -99,7 +99,7 @@ def _text_after_pattern_file(func):
 @format_option(("text", "json"), "text")
 @out_option
 @report_errors
-def explain(pattern, text, universe, flags, state_cap, fmt, out):
+def explain(pattern, text, alphabet, flags, state_cap, fmt, out):
     """Say whether PATTERN accepts TEXT and, if not, the nearest valid string and the edits.
 
     The nearest valid string (witness) is the shortest, then alphabetically
@@ -112,10 +112,10 @@ def explain(pattern, text, universe, flags, state_cap, fmt, out):
       pfuzz explain '[A-Z]{2}[0-9]{4}' 'AB12O4'
       pfuzz explain --pattern-file rule.txt 'x-42' --format json
     """
-    lang = compile_language(pattern, universe, flags, state_cap)
+    lang = compile_language(pattern, alphabet, flags, state_cap)
     why = lang.explain(text)
     if fmt == "json":
-        document = {"pattern": lang.pattern, "universe": lang.universe_name, **why.as_dict(),
+        document = {"pattern": lang.pattern, "alphabet": lang.alphabet_name, **why.as_dict(),
                     "edits_text": [str(e) for e in why.edits]}
         emit(json.dumps(document, ensure_ascii=False, indent=2) + "\n", out)
     else:

@@ -54,7 +54,7 @@ def _bounds(lang, min_length, max_length) -> tuple[int, int]:
 @format_option(("text", "csv", "json"), "text")
 @out_option
 @report_errors
-def count(pattern, universe, flags, state_cap, length, min_length, max_length, fmt, out):
+def count(pattern, alphabet, flags, state_cap, length, min_length, max_length, fmt, out):
     """Count exactly the strings PATTERN accepts, per length, and in total.
 
     The table lists every length in the range (zeros included); csv ends with
@@ -70,7 +70,7 @@ def count(pattern, universe, flags, state_cap, length, min_length, max_length, f
         fail("give --length, or --min-length/--max-length, not both")
     if length is not None:
         min_length = max_length = length
-    lang = compile_language(pattern, universe, flags, state_cap)
+    lang = compile_language(pattern, alphabet, flags, state_cap)
     low, high = _bounds(lang, min_length, max_length)
     table = lang.counts(low, high)
     with _big_integers():
@@ -81,7 +81,7 @@ def _render_counts(lang, table: dict[int, int], fmt: str, defaulted: bool) -> st
     total = sum(table.values())
     if fmt == "json":
         document = {
-            "pattern": lang.pattern, "universe": lang.universe_name,
+            "pattern": lang.pattern, "alphabet": lang.alphabet_name,
             "min_length": min(table), "max_length": max(table),
             "max_length_defaulted": defaulted and not lang.is_finite(),
             "counts": [{"length": k, "count": v} for k, v in table.items()],
@@ -115,7 +115,7 @@ def _render_counts(lang, table: dict[int, int], fmt: str, defaulted: bool) -> st
 @format_option(("text", "jsonl"), "text")
 @out_option
 @report_errors
-def sample(pattern, universe, flags, state_cap, how_many, seed, min_length, max_length, lengths,
+def sample(pattern, alphabet, flags, state_cap, how_many, seed, min_length, max_length, lengths,
            unique, method, fmt, out):
     """Write N strings PATTERN accepts, uniformly random within each length.
 
@@ -128,7 +128,7 @@ def sample(pattern, universe, flags, state_cap, how_many, seed, min_length, max_
       pfuzz sample '[A-Z]{2}[0-9]{4}' -n 5 --seed 7
       pfuzz sample '[a-z]+@[a-z]+\\.org' -n 1000 --max-length 20 --unique --format jsonl
     """
-    lang = compile_language(pattern, universe, flags, state_cap)
+    lang = compile_language(pattern, alphabet, flags, state_cap)
     _bounds(lang, min_length, max_length)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", PfuzzWarning)

@@ -174,7 +174,7 @@ def _field_cases(field: Field, seeds: tuple[int, int], tick) -> FieldCases:
     lang = field.language()
     if lang.is_empty():
         raise ProfileError("no string satisfies the pattern with its require, forbid and "
-                           f"length keys over the universe {field.universe!r}",
+                           f"length keys over the alphabet {field.alphabet!r}",
                            where=f"field '{field.name}'")
     low = lang.min_length
     finite = lang.max_length is not None
@@ -313,7 +313,7 @@ def _field_manifest(m: FieldCases) -> dict:
     return {
         "about": f.about, "source": f.source,
         "pattern": f.pattern, "require": list(f.require), "forbid": list(f.forbid),
-        "universe": f.universe, "flags": list(f.flags),
+        "alphabet": f.alphabet, "flags": list(f.flags),
         "min_length": f.min_length, "max_length": f.max_length,
         "distance": f.distance, "edits": list(f.edits),
         "finite": m.finite,

@@ -17,7 +17,7 @@ choosing the next edge costs O(1) whatever the out-degree; a character is
 then taken uniformly among the edge's ``width(e)``. All samples walk at once:
 one numpy operation per step handles a whole column of choices. Strings are
 decoded from code-point arrays (uint8/latin-1 or uint32/UTF-32) with a
-separator character outside the universe, never via numpy string arrays, so
+separator character outside the alphabet, never via numpy string arrays, so
 U+0000 survives.
 
 Reproducibility: the tables come from correctly rounded IEEE-754 operations
@@ -82,7 +82,7 @@ class FloatTables:
         self._edges(counter)
         q, self.start_mantissa, self.start_exponent = self.probabilities(max_length)
         self.limit, self.alias = self._alias_tables(q)
-        self._separator, self._codes_dtype, self._encoding = _codec(counter.dfa.universe)
+        self._separator, self._codes_dtype, self._encoding = _codec(counter.dfa.alphabet)
 
     # -- structure ----------------------------------------------------------------------
     def _edges(self, counter) -> None:
@@ -324,10 +324,10 @@ def _gamma(k: int) -> float:
     return k * _UNIT / (1 - k * _UNIT)
 
 
-def _codec(universe) -> tuple[int, type, str]:
-    """A separator code point outside the universe, and how to store and decode code points."""
-    rest = universe.complement()
-    if rest.ranges and rest.min < 256 and universe.max < 256:
+def _codec(alphabet) -> tuple[int, type, str]:
+    """A separator code point outside the alphabet, and how to store and decode code points."""
+    rest = alphabet.complement()
+    if rest.ranges and rest.min < 256 and alphabet.max < 256:
         return rest.min, np.uint8, "latin-1"
     separator = next((lo for lo, _ in rest.ranges), 0xD800)
     return separator, np.uint32, "utf-32-le"

@@ -45,9 +45,9 @@ asked, all of them are returned (shuffled) with a ``PfuzzWarning``.
 Reproducibility: every draw comes from one ``pfuzz.base.randomness.RandomSource``
 (numpy's PCG64, whose bit stream numpy keeps stable across platforms), in a
 fixed order, with no reliance on hash order. The same seed, pattern,
-universe, arguments (``n`` included, since it selects the path) and
+alphabet, arguments (``n`` included, since it selects the path) and
 versions of pfuzz, Python and numpy give the same strings on every platform.
-Over ASCII universes the strings do not depend on the Python version either:
+Over ASCII alphabets the strings do not depend on the Python version either:
 the only thing Python contributes is its Unicode database (which decides
 what ``\\w`` or case-folding match beyond ASCII); integer arithmetic and
 the numpy stream do not change.

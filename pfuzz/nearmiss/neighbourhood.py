@@ -125,16 +125,16 @@ def _bit(t: int) -> int:
 
 # -- range edges -------------------------------------------------------------------------
 
-def _edges_of(label: CharSet, universe: CharSet) -> set[int]:
+def _edges_of(label: CharSet, alphabet: CharSet) -> set[int]:
     points = set()
     for lo, hi in label.ranges:
-        points.update(p for p in (lo - 1, hi + 1) if p in universe)
+        points.update(p for p in (lo - 1, hi + 1) if p in alphabet)
     return points
 
 
 def edge_characters(dfa: DFA) -> dict[int, dict[int, frozenset[int]]]:
     """Per state and live target, the code points just outside the transition's ranges."""
-    return {q: {t: frozenset(_edges_of(label, dfa.universe)) for label, t in row}
+    return {q: {t: frozenset(_edges_of(label, dfa.alphabet)) for label, t in row}
             for q, row in enumerate(transitions(dfa))}
 
 
@@ -196,7 +196,7 @@ class _Neighbourhood:
         n = dfa.n_states
         acts: dict[tuple, list[CharSet]] = {}
         for cls in partition(list(dfa.classes) + [CharSet.single(p) for p in points],
-                             dfa.universe):
+                             dfa.alphabet):
             p = cls.min if len(cls) == 1 else None
             column = tuple(sum(1 << t for t, e in edges[q].items() if p in e) for q in range(n))
             mask = sum(1 << q for q in range(n) if any(p in e for e in edges[q].values()))
@@ -301,4 +301,4 @@ def build(dfa: DFA, distance: int, kinds: tuple[str, ...], edges: bool,
     plan = _Neighbourhood(dfa, distance, kinds, edges)
     step = plan.step_one if distance == 1 else plan.step
     return minimise(explore(plan.start(), step, plan.is_accepting, plan.classes,
-                            dfa.universe, cap))
+                            dfa.alphabet, cap))

@@ -1,6 +1,6 @@
 """Near-miss rejects: the strings a language rejects within a few edits of one it accepts.
 
-For a language L over a universe U and a distance d >= 1, the near-miss
+For a language L over an alphabet U and a distance d >= 1, the near-miss
 language is N_d(L) − L: the strings s over U that L rejects and for which
 some w in L has OSA(s, w) <= d. OSA is the optimal string alignment
 (restricted Damerau–Levenshtein) distance: insertion, deletion, substitution
@@ -81,7 +81,7 @@ def clear_caches() -> None:
 
 def near_miss_dfa(dfa: DFA, distance: int = 1, kinds: "Sequence[str] | None" = None, *,
                   edges: bool = False, cap: int = DEFAULT_STATE_CAP) -> DFA:
-    """Minimal DFA of N_d(L) − L under the OSA distance, over the same universe.
+    """Minimal DFA of N_d(L) − L under the OSA distance, over the same alphabet.
 
     ``kinds`` restricts the edit operations the alignments may use (see the
     module docstring); ``edges`` restricts written characters to range edges.

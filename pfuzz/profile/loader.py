@@ -10,7 +10,7 @@ reported with the pattern and a caret under its column.
 
 A field's language is the intersection of its pattern with every ``require``
 pattern and with the strings of length ``min_length..max_length``, minus every
-``forbid`` pattern, all over the field's universe and with its flags
+``forbid`` pattern, all over the field's alphabet and with its flags
 (``Field.language``). Each part is a minimal DFA; the combination is a product
 construction per part (``pfuzz.automata.dfa``), so its cost is the product of the parts'
 state counts in the worst case.
@@ -32,9 +32,9 @@ from functools import cached_property
 from pathlib import Path
 
 from pfuzz.corpus import context as records
-from pfuzz.base.charset import DEFAULT_UNIVERSE
+from pfuzz.base.charset import DEFAULT_ALPHABET
 from pfuzz.automata.dfa import explore, minimise
-from pfuzz.errors import PatternError, ProfileError, StateLimitError, UniverseError
+from pfuzz.errors import PatternError, ProfileError, StateLimitError, AlphabetError
 from pfuzz.nearmiss.rejects import KINDS as EDIT_KINDS
 from pfuzz.profile.tomlcheck import TableReader, hint
 
@@ -52,7 +52,7 @@ RESERVED_COLUMNS = ("row_id", "bad_field", "reason", "witness", "edits")
 
 TOP_KEYS = ("profile", "field", "record")
 PROFILE_KEYS = ("title", "about", "seed")
-FIELD_KEYS = ("name", "pattern", "about", "source", "universe", "flags", "min_length",
+FIELD_KEYS = ("name", "pattern", "about", "source", "alphabet", "flags", "min_length",
               "max_length", "require", "forbid", "valid", "invalid", "distance", "edits")
 RECORD_KEYS = ("name", "columns", "valid_rows", "invalid_rows", "context")
 CONTEXT_KEYS = ("column", "provider", "locale")
@@ -66,7 +66,7 @@ class Field:
     pattern: str
     about: str = ""
     source: str = ""
-    universe: str = DEFAULT_UNIVERSE
+    alphabet: str = DEFAULT_ALPHABET
     flags: tuple[str, ...] = ()
     min_length: int | None = None
     max_length: int | None = None
@@ -85,7 +85,7 @@ class Field:
         return bits
 
     def compile_part(self, pattern: str):
-        return _compiled(pattern, self.universe, self.flag_bits)
+        return _compiled(pattern, self.alphabet, self.flag_bits)
 
     @cached_property
     def _parts(self):
@@ -149,22 +149,22 @@ class Profile:
 
 
 @functools.lru_cache(maxsize=256)
-def _compiled(pattern: str, universe: str, flags: int):
+def _compiled(pattern: str, alphabet: str, flags: int):
     """Languages are immutable, so fields that share a pattern share one compilation."""
     from pfuzz.language import Language
-    return Language.compile(pattern, universe, flags)
+    return Language.compile(pattern, alphabet, flags)
 
 
 def _lengths_language(like, lo: int, hi: int | None):
-    """The Language of every string over ``like``'s universe with length in [lo, hi]."""
-    universe = like.universe
+    """The Language of every string over ``like``'s alphabet with length in [lo, hi]."""
+    alphabet = like.alphabet
 
     def step(n, _c):
         if hi is None:
             return min(n + 1, lo)
         return n + 1 if n < hi else None
 
-    dfa = minimise(explore(0, step, lambda n: n >= lo, (universe,), universe))
+    dfa = minimise(explore(0, step, lambda n: n >= lo, (alphabet,), alphabet))
     return like._wrap(dfa)
 
 
@@ -239,7 +239,7 @@ class _Reader(TableReader):
             pattern=self.get(table, "pattern", str, where, required=True),
             about=self.get(table, "about", str, where, default=""),
             source=self.get(table, "source", str, where, default=""),
-            universe=self.get(table, "universe", str, where, default=DEFAULT_UNIVERSE),
+            alphabet=self.get(table, "alphabet", str, where, default=DEFAULT_ALPHABET),
             flags=self.choices(table, "flags", where, FLAG_NAMES, ()),
             min_length=self.count(table, "min_length", where, None),
             max_length=self.count(table, "max_length", where, None),
@@ -270,8 +270,8 @@ class _Reader(TableReader):
                 column = f" at column {error.position}" if error.position is not None else ""
                 caret = error.caret() or f"  {pattern}"
                 self.fail(f"bad pattern {pattern!r}{column}: {error.message}", where, key, caret)
-            except UniverseError as error:
-                self.fail(str(error), where, "universe")
+            except AlphabetError as error:
+                self.fail(str(error), where, "alphabet")
             except StateLimitError as error:
                 self.fail(f"pattern {pattern!r}: {error}", where, key)
 

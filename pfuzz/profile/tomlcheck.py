@@ -16,6 +16,10 @@ import difflib
 from pfuzz.errors import ProfileError
 
 
+#: Keys of earlier profile versions, with what replaced them.
+RENAMED_KEYS = {"universe": "renamed to 'alphabet': the set of characters a field is over"}
+
+
 def hint(value: str, known, fallback: str) -> str:
     """"did you mean 'x'?" for the nearest known value, else ``fallback``."""
     close = difflib.get_close_matches(value, list(known), n=1)
@@ -36,7 +40,7 @@ class TableReader:
     def keys(self, table: dict, known: tuple[str, ...], where: str) -> None:
         for key in table:
             if key not in known:
-                why = hint(key, known, "known keys: " + ", ".join(known))
+                why = RENAMED_KEYS.get(key) or hint(key, known, "known keys: " + ", ".join(known))
                 self.fail(f"is not known ({why})", where, key)
 
     def get(self, table: dict, key: str, kind: type, where: str, *, required=False, default=None):

@@ -1,40 +1,40 @@
-"""Universe specifications: a preset name or a character class in pattern syntax.
+"""Alphabet specifications: a preset name or a character class in pattern syntax.
 
-The universe is the set of characters pfuzz works over; a compiled language is
-L(pattern) ∩ universe*. Presets are defined once, in ``pfuzz.base.charset``; a
+The alphabet is the set of characters pfuzz works over; a compiled language is
+L(pattern) ∩ alphabet*. Presets are defined once, in ``pfuzz.base.charset``; a
 specification that starts with ``[`` is parsed as a class of the pattern
 syntax (for example ``"[ab]"`` or ``"[ -~\\t\\n]"``).
 """
 
 from __future__ import annotations
 
-from pfuzz.base.charset import DEFAULT_UNIVERSE, UNIVERSES, CharSet
-from pfuzz.errors import PatternError, UniverseError
+from pfuzz.base.charset import DEFAULT_ALPHABET, ALPHABETS, CharSet
+from pfuzz.errors import PatternError, AlphabetError
 
 
-def resolve_universe(spec: "str | CharSet | None") -> CharSet:
-    """The CharSet a universe specification names."""
+def resolve_alphabet(spec: "str | CharSet | None") -> CharSet:
+    """The CharSet an alphabet specification names."""
     if spec is None:
-        spec = DEFAULT_UNIVERSE
+        spec = DEFAULT_ALPHABET
     if isinstance(spec, CharSet):
         chars = spec
-    elif isinstance(spec, str) and spec in UNIVERSES:
-        chars = UNIVERSES[spec]
+    elif isinstance(spec, str) and spec in ALPHABETS:
+        chars = ALPHABETS[spec]
     elif isinstance(spec, str) and spec.startswith("["):
         chars = _parse_class(spec)
     else:
-        names = ", ".join(UNIVERSES)
-        raise UniverseError(f"unknown universe {spec!r}: use one of {names}, or a class such as '[a-z0-9]'")
-    chars = chars & UNIVERSES["unicode"]
+        names = ", ".join(ALPHABETS)
+        raise AlphabetError(f"unknown alphabet {spec!r}: use one of {names}, or a class such as '[a-z0-9]'")
+    chars = chars & ALPHABETS["unicode"]
     if not chars:
-        raise UniverseError(f"universe {spec!r} holds no characters")
+        raise AlphabetError(f"alphabet {spec!r} holds no characters")
     return chars
 
 
-def universe_label(spec: "str | CharSet | None") -> str:
+def alphabet_label(spec: "str | CharSet | None") -> str:
     """A short name for reports."""
     if spec is None:
-        return DEFAULT_UNIVERSE
+        return DEFAULT_ALPHABET
     return spec if isinstance(spec, str) else spec.describe()
 
 
@@ -45,7 +45,7 @@ def _parse_class(spec: str) -> CharSet:
     try:
         tree = parse(spec)
     except PatternError as error:
-        raise UniverseError(f"universe {spec!r} is not a valid class: {error.message}") from None
+        raise AlphabetError(f"alphabet {spec!r} is not a valid class: {error.message}") from None
     if not isinstance(tree, Chars):
-        raise UniverseError(f"universe {spec!r} must be a single character class such as '[a-z]'")
+        raise AlphabetError(f"alphabet {spec!r} must be a single character class such as '[a-z]'")
     return tree.chars

@@ -12,11 +12,11 @@ rules would be fragile, so this module splits the characters in two:
   without IGNORECASE: ``node.chars`` already says whether they match;
 * the others, about 3,000 code points in all of Unicode (52 in printable
   ASCII), are asked of ``re`` directly: one ``re.finditer(node.source, ...)``
-  over a string of those characters that lie in the universe. An atom always
+  over a string of those characters that lie in the alphabet. An atom always
   matches exactly one character, so the matches are the members.
 
 Cost: about 30 ms once per process to find the cased code points; then, per
-(atom, flags, universe), ``re``'s compile of the atom (about 0.3 ms) and one
+(atom, flags, alphabet), ``re``'s compile of the atom (about 0.3 ms) and one
 C-level scan of at most ~3,000 characters, cached.
 The split is checked against ``re.fullmatch`` over all code points in
 tests/test_casefold.py.
@@ -33,12 +33,12 @@ from pfuzz.base.charset import MAX_CODE_POINT, CharSet
 from pfuzz.syntax.tree import Chars
 
 
-def resolve(node: Chars, universe: CharSet) -> CharSet:
-    """The exact set of characters within ``universe`` that the atom matches under its flags."""
+def resolve(node: Chars, alphabet: CharSet) -> CharSet:
+    """The exact set of characters within ``alphabet`` that the atom matches under its flags."""
     if not node.ignore_case:
-        return node.chars & universe
-    asked = case_sensitive_points() & universe
-    untouched = (node.chars & universe) - asked
+        return node.chars & alphabet
+    asked = case_sensitive_points() & alphabet
+    untouched = (node.chars & alphabet) - asked
     return untouched | _matched(node.source, node.flags, asked)
 
 

@@ -3,7 +3,7 @@
 The reference verdict of a field is, with Python's ``re.fullmatch`` as the
 matcher: the pattern matches, every ``require`` pattern matches, no
 ``forbid`` pattern matches, the length is within ``min_length..max_length``
-and every character is in the field's universe. Every case the corpus marks
+and every character is in the field's alphabet. Every case the corpus marks
 ``accept`` must get True, every ``reject`` False.
 """
 
@@ -20,7 +20,7 @@ from pfuzz.corpus.formats import read_csv, read_jsonl
 from pfuzz.corpus.writer import write_corpus
 from pfuzz.profile.loader import load_profile
 from pfuzz.base.randomness import RandomSource
-from pfuzz.syntax.alphabet import resolve_universe
+from pfuzz.syntax.alphabet import resolve_alphabet
 
 DEMO = Path(__file__).resolve().parents[2] / "profiles" / "demo.toml"
 
@@ -46,7 +46,7 @@ invalid = 40
 [[field]]
 name = "word"
 pattern = 'a[bc]+'
-universe = "[abc ]"
+alphabet = "[abc ]"
 valid = 20
 invalid = 20
 
@@ -60,13 +60,13 @@ invalid_rows = 6
 def reference(field, text: str) -> bool:
     """The verdict of Python's re (source: the ``re`` module of the standard library)."""
     flags = field.flag_bits
-    universe = resolve_universe(field.universe)
+    alphabet = resolve_alphabet(field.alphabet)
     return (re.fullmatch(field.pattern, text, flags) is not None
             and all(re.fullmatch(p, text, flags) for p in field.require)
             and not any(re.fullmatch(p, text, flags) for p in field.forbid)
             and (field.min_length or 0) <= len(text)
             and (field.max_length is None or len(text) <= field.max_length)
-            and all(ch in universe for ch in text))
+            and all(ch in alphabet for ch in text))
 
 
 def apply_script(witness: str, edits: list[dict]) -> str:

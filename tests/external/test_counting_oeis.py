@@ -30,8 +30,8 @@ def tribonacci(k: int) -> int:
     return a
 
 
-def counts(pattern: str, universe: str) -> list[int]:
-    lang = pfuzz.compile(pattern, universe=universe)
+def counts(pattern: str, alphabet: str) -> list[int]:
+    lang = pfuzz.compile(pattern, alphabet=alphabet)
     return [lang.count(n) for n in N]
 
 

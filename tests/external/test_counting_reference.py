@@ -1,7 +1,7 @@
 """Counts, ranks, enumeration and samples against brute force with Python's ``re``.
 
 Reference matcher: CPython's ``re.fullmatch`` (the standard library). For
-random small patterns over a 2- or 3-letter universe, every string up to
+random small patterns over a 2- or 3-letter alphabet, every string up to
 length 8 is tried with ``re.fullmatch``; the
 accepted ones, sorted, must be exactly what pfuzz counts, ranks and
 enumerates, and every sampled string must be accepted by ``re.fullmatch``.
@@ -46,7 +46,7 @@ def accepted_by_re(pattern: str, letters: str, length: int) -> list[str]:
 
 
 def check(pattern: str, letters: str, longest: int) -> None:
-    lang = pfuzz.compile(pattern, universe=f"[{letters}]")
+    lang = pfuzz.compile(pattern, alphabet=f"[{letters}]")
     for length in range(longest + 1):
         expected = accepted_by_re(pattern, letters, length)
         assert lang.count(length) == len(expected), (pattern, length)

@@ -121,7 +121,7 @@ CASES = ([("abc", 1, 7, seed) for seed in range(12)] + [("ab", 2, 7, seed) for s
 
 def _case(alphabet, seed):
     pattern = random_pattern(random.Random(seed * 31 + len(alphabet)), alphabet)
-    return pattern, re.compile(pattern), pfuzz.compile(pattern, universe=f"[{alphabet}]")
+    return pattern, re.compile(pattern), pfuzz.compile(pattern, alphabet=f"[{alphabet}]")
 
 
 @pytest.mark.parametrize("alphabet,distance,max_length,seed", CASES)

@@ -91,7 +91,7 @@ def test_syntax_error_position_matches_re(pattern, position, message):
 def test_backspace_inside_a_class_is_not_a_boundary():
     # re docs: inside a character class \b is the backspace character.
     assert re.fullmatch(r"a[\b]", "a\b")
-    lang = pfuzz.compile(r"a[\b]", universe="ascii")
+    lang = pfuzz.compile(r"a[\b]", alphabet="ascii")
     assert lang.accepts("a\b") and not lang.accepts("ab")
 
 

@@ -156,7 +156,7 @@ def test_valid_strings_keep_every_rule_and_rejects_break_one(field, rules):
         assert lang.accepts(text) == (not failed), (text, failed)
         broken.update(failed)
     # the near misses and boundary cases together break every rule at least once, except
-    # "printable ASCII": the universe is printable ASCII, so no case leaves it
+    # "printable ASCII": the alphabet is printable ASCII, so no case leaves it
     expected = set(rules("x")) - {"printable ASCII"}
     assert broken == expected, broken ^ expected
 

@@ -56,17 +56,17 @@ def flag_bits(spec: dict) -> int:
 
 @functools.lru_cache(maxsize=None)
 def field_language(profile: str, name: str) -> pfuzz.Language:
-    """pattern ∩ require − forbid ∩ lengths, over the field's universe (schema of the profile format)."""
+    """pattern ∩ require − forbid ∩ lengths, over the field's alphabet (schema of the profile format)."""
     spec = field_spec(profile, name)
-    universe, flags = spec.get("universe", "printable"), flag_bits(spec)
-    lang = pfuzz.compile(spec["pattern"], universe, flags)
+    alphabet, flags = spec.get("alphabet", "printable"), flag_bits(spec)
+    lang = pfuzz.compile(spec["pattern"], alphabet, flags)
     for pattern in spec.get("require", []):
-        lang = lang & pfuzz.compile(pattern, universe, flags)
+        lang = lang & pfuzz.compile(pattern, alphabet, flags)
     for pattern in spec.get("forbid", []):
-        lang = lang - pfuzz.compile(pattern, universe, flags)
+        lang = lang - pfuzz.compile(pattern, alphabet, flags)
     if "min_length" in spec or "max_length" in spec:
         bounds = f"(?s).{{{spec.get('min_length', 0)},{spec.get('max_length', '')}}}"
-        lang = lang & pfuzz.compile(bounds, universe)
+        lang = lang & pfuzz.compile(bounds, alphabet)
     return lang
 
 

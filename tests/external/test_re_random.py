@@ -3,9 +3,9 @@
 Reference matcher: CPython's ``re.fullmatch`` (the standard library). Every
 pattern is drawn together with its syntax tree, so the compiler is judged on
 its own (``compile_tree``) and through the parser (``compile_dfa``); both must
-accept exactly the strings of length <= 6 over a 2- or 3-letter universe that
-``re.fullmatch`` accepts. Universes with '\\n' exercise the anchors, ``$``
-before a final newline and ``(?m)``; universes with both cases of a letter
+accept exactly the strings of length <= 6 over a 2- or 3-letter alphabet that
+``re.fullmatch`` accepts. Alphabets with '\\n' exercise the anchors, ``$``
+before a final newline and ``(?m)``; alphabets with both cases of a letter
 exercise ``(?i)``.
 """
 
@@ -22,7 +22,7 @@ from pfuzz.automata.construction.compiler import compile_dfa, compile_tree
 from pfuzz.syntax.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
 
 MAX_LENGTH = 6
-UNIVERSES = ["ab", "a\n", "ab\n", "aA\n", "aAb", "aB\n"]
+ALPHABETS = ["ab", "a\n", "ab\n", "aA\n", "aAb", "aB\n"]
 LETTERS = "abAB"
 
 
@@ -100,41 +100,41 @@ FLAG_LETTERS = {re.MULTILINE: "m", re.DOTALL: "s", re.IGNORECASE: "i"}
 
 @st.composite
 def cases(draw, assertions=True, flag_choices=(0, re.MULTILINE, re.DOTALL, re.IGNORECASE)):
-    """A universe, an inline flag prefix such as "(?mi)", the pattern body and its tree."""
-    universe = draw(st.sampled_from(UNIVERSES))
+    """An alphabet, an inline flag prefix such as "(?mi)", the pattern body and its tree."""
+    alphabet = draw(st.sampled_from(ALPHABETS))
     flags = 0
     for flag in flag_choices:
         if flag and draw(st.booleans()):
             flags |= flag
     text, tree = draw(nodes(flags, 3, assertions))
     prefix = "".join(letter for flag, letter in FLAG_LETTERS.items() if flags & flag)
-    return universe, (f"(?{prefix})" if prefix else ""), text, tree
+    return alphabet, (f"(?{prefix})" if prefix else ""), text, tree
 
 
-def check(universe: str, prefix: str, body: str, tree) -> None:
+def check(alphabet: str, prefix: str, body: str, tree) -> None:
     pattern = prefix + body
-    alphabet = CharSet.from_chars(universe)
-    by_tree = compile_tree(tree, alphabet, resolve=lambda node, u: node.chars & u)
-    by_text = compile_dfa(pattern, alphabet)
+    letters = CharSet.from_chars(alphabet)
+    by_tree = compile_tree(tree, letters, resolve=lambda node, u: node.chars & u)
+    by_text = compile_dfa(pattern, letters)
     rx = re.compile(pattern)
-    for s in strings_upto(universe, MAX_LENGTH):
+    for s in strings_upto(alphabet, MAX_LENGTH):
         expected = rx.fullmatch(s) is not None  # reference: re.fullmatch
-        assert by_tree.accepts(s) == expected, (pattern, universe, s, "tree")
-        assert by_text.accepts(s) == expected, (pattern, universe, s, "text")
+        assert by_tree.accepts(s) == expected, (pattern, alphabet, s, "tree")
+        assert by_text.accepts(s) == expected, (pattern, alphabet, s, "text")
 
 
-def check_modes(universe: str, prefix: str, body: str) -> None:
+def check_modes(alphabet: str, prefix: str, body: str) -> None:
     """re.match and re.search: by ``mode`` and as full matches of P(?s:.*) and (?s:.*)P(?s:.*)."""
-    alphabet = CharSet.from_chars(universe)
+    letters = CharSet.from_chars(alphabet)
     pattern = prefix + body
     rx = re.compile(pattern)
     compiled = {
-        "match": [compile_dfa(pattern, alphabet, mode="match"),
-                  compile_dfa(f"{prefix}(?:{body})(?s:.*)", alphabet)],
-        "search": [compile_dfa(pattern, alphabet, mode="search"),
-                   compile_dfa(f"{prefix}(?s:.*)(?:{body})(?s:.*)", alphabet)],
+        "match": [compile_dfa(pattern, letters, mode="match"),
+                  compile_dfa(f"{prefix}(?:{body})(?s:.*)", letters)],
+        "search": [compile_dfa(pattern, letters, mode="search"),
+                   compile_dfa(f"{prefix}(?s:.*)(?:{body})(?s:.*)", letters)],
     }
-    for s in strings_upto(universe, MAX_LENGTH):
+    for s in strings_upto(alphabet, MAX_LENGTH):
         for mode, dfas in compiled.items():
             expected = getattr(rx, mode)(s) is not None  # reference: re.match / re.search
             assert all(d.accepts(s) == expected for d in dfas), (pattern, mode, s)
@@ -155,8 +155,8 @@ def test_patterns_with_anchors_and_lookaheads_agree_with_re(case):
 @settings(max_examples=200, deadline=None, database=None)
 @given(cases())
 def test_match_and_search_modes_agree_with_re(case):
-    universe, prefix, body, _ = case
-    check_modes(universe, prefix, body)
+    alphabet, prefix, body, _ = case
+    check_modes(alphabet, prefix, body)
 
 
 # Hand-picked classics: anchors and lookaheads where validators commonly go wrong.
@@ -181,15 +181,15 @@ CLASSICS = [
 ]
 
 
-@pytest.mark.parametrize("universe, pattern", CLASSICS)
-def test_classic_anchor_cases(universe, pattern):
-    alphabet = CharSet.from_chars(universe)
-    compiled = compile_dfa(pattern, alphabet)
-    for s in strings_upto(universe, MAX_LENGTH):
+@pytest.mark.parametrize("alphabet, pattern", CLASSICS)
+def test_classic_anchor_cases(alphabet, pattern):
+    letters = CharSet.from_chars(alphabet)
+    compiled = compile_dfa(pattern, letters)
+    for s in strings_upto(alphabet, MAX_LENGTH):
         assert compiled.accepts(s) == (re.fullmatch(pattern, s) is not None), s  # reference: re
     flags = re.match(r"\(\?[a-z]+\)", pattern)
     prefix = flags.group() if flags else ""
-    check_modes(universe, prefix, pattern[len(prefix):])
+    check_modes(alphabet, prefix, pattern[len(prefix):])
 
 
 def test_dollar_before_a_final_newline():

@@ -20,14 +20,14 @@ from pfuzz.base.charset import CharSet
 from pfuzz.syntax.parser import parse
 from pfuzz.syntax.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
 
-ALPHABET = "aAbk\n \u212a"  # includes K's case partner U+212A KELVIN SIGN and a space for verbose mode
-UNIVERSE = CharSet.from_chars(ALPHABET)
-STRINGS = ["".join(t) for n in range(4) for t in itertools.product(ALPHABET, repeat=n)]
+LETTERS = "aAbk\n \u212a"  # includes K's case partner U+212A KELVIN SIGN and a space for verbose mode
+ALPHABET = CharSet.from_chars(LETTERS)
+STRINGS = ["".join(t) for n in range(4) for t in itertools.product(LETTERS, repeat=n)]
 
 
 @functools.lru_cache(maxsize=None)
 def members(node: Chars) -> frozenset[str]:
-    return frozenset(resolve(node, UNIVERSE).chars())
+    return frozenset(resolve(node, ALPHABET).chars())
 
 
 def ends(node, text: str, start: int) -> set[int]:

@@ -1,7 +1,7 @@
 """The pattern compiler: pattern text to the minimal DFA of what ``re.fullmatch`` accepts.
 
 Pipeline: ``pfuzz.syntax.parser.parse`` gives a tree; every ``Chars`` node is resolved
-to a ``CharSet`` inside the universe (``pfuzz.syntax.casefold.resolve``); all those
+to a ``CharSet`` inside the alphabet (``pfuzz.syntax.casefold.resolve``); all those
 sets (and ``'\\n'``) are partitioned into disjoint classes
 (``pfuzz.base.charset.partition``); Thompson's construction (``pfuzz.automata.nfa``) gives an
 ε-NFA over class indexes; the subset construction of Rabin & Scott (1959), run
@@ -78,14 +78,14 @@ Resolver = Callable[[Chars, CharSet], CharSet]
 MODES = ("fullmatch", "match", "search")
 
 
-def compile_dfa(pattern: str, universe: CharSet, flags: int = 0,
+def compile_dfa(pattern: str, alphabet: CharSet, flags: int = 0,
                 cap: int = DEFAULT_STATE_CAP, mode: str = "fullmatch") -> DFA:
-    """The canonical minimal DFA of the strings over ``universe`` that
+    """The canonical minimal DFA of the strings over ``alphabet`` that
     ``re.fullmatch(pattern, s, flags)`` accepts (or ``re.match`` / ``re.search``
     with ``mode``)."""
     from pfuzz.syntax.parser import parse
 
-    return compile_tree(in_mode(parse(pattern, flags), mode), universe, cap=cap)
+    return compile_tree(in_mode(parse(pattern, flags), mode), alphabet, cap=cap)
 
 
 def in_mode(tree: Node, mode: str) -> Node:
@@ -106,15 +106,15 @@ def in_mode(tree: Node, mode: str) -> Node:
     raise ArgumentError(f"unknown match mode {mode!r}: use one of {', '.join(MODES)}")
 
 
-def compile_tree(tree: Node, universe: CharSet, cap: int = DEFAULT_STATE_CAP,
+def compile_tree(tree: Node, alphabet: CharSet, cap: int = DEFAULT_STATE_CAP,
                  resolve: Resolver | None = None) -> DFA:
-    """The minimal DFA of a syntax tree under full-match semantics over ``universe``."""
+    """The minimal DFA of a syntax tree under full-match semantics over ``alphabet``."""
     if resolve is None:
         from pfuzz.syntax.casefold import resolve
-    sets = {node: resolve(node, universe) & universe for node in _chars_nodes(tree)}
-    newline = CharSet.single("\n") & universe
-    classes = partition([*sets.values(), newline], universe)
-    return _Shared(classes, universe, cap, sets).compile(tree, START, any_suffix=False)
+    sets = {node: resolve(node, alphabet) & alphabet for node in _chars_nodes(tree)}
+    newline = CharSet.single("\n") & alphabet
+    classes = partition([*sets.values(), newline], alphabet)
+    return _Shared(classes, alphabet, cap, sets).compile(tree, START, any_suffix=False)
 
 
 # -- tree walks -----------------------------------------------------------------------
@@ -156,10 +156,10 @@ def _context_map(tree: Node) -> tuple[int, int, int]:
 class _Shared(Obligations):
     """Classes, labels, assertions and the interned constraint DFAs of one compilation."""
 
-    def __init__(self, classes: list[CharSet], universe: CharSet, cap: int,
+    def __init__(self, classes: list[CharSet], alphabet: CharSet, cap: int,
                  sets: dict[Chars, CharSet]):
         super().__init__(classes)
-        self.universe = universe
+        self.alphabet = alphabet
         self.cap = cap
         self.labels = {node: frozenset(c for c, cls in enumerate(classes) if cls.min in chars)
                        for node, chars in sets.items()}
@@ -171,7 +171,7 @@ class _Shared(Obligations):
                     any_suffix=any_suffix, limit=NFA_STATES_PER_CAP * self.cap)
         runner = Determiniser(self, nfa, _context_map(tree))
         raw = automata.explore(runner.start(context), runner.step, runner.is_accepting,
-                               self.classes, self.universe, self.cap)
+                               self.classes, self.alphabet, self.cap)
         return automata.minimise(raw)
 
     def assertion(self, node: Anchor | Lookahead, context: int):
@@ -199,5 +199,5 @@ class _Shared(Obligations):
             rows[0][nl] = 1
             rows.append([1 if kind == "line_end" else DEAD] * k)
         table = tuple(tuple(row) for row in rows)
-        raw = DFA(self.universe, tuple(self.classes), table, frozenset(range(len(rows))))
+        raw = DFA(self.alphabet, tuple(self.classes), table, frozenset(range(len(rows))))
         return automata.minimise(raw)
