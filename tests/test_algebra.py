@@ -12,7 +12,8 @@ from hypothesis import given, settings
 import pfuzz
 from helpers import ALL_STRINGS, language, random_dfas
 from pfuzz.automata import algebra
-from pfuzz.automata.dfa import DFA, minimise
+from pfuzz.automata.dfa import DFA
+from pfuzz.automata.minimise import minimise
 
 settings_ = settings(max_examples=150, deadline=None, database=None)
 

@@ -18,9 +18,11 @@ import pfuzz
 from helpers import flat_transitions, strings_upto
 from pfuzz.boundary import suite as boundary
 from pfuzz.boundary.suite import coverage, suite
-from pfuzz.counting.tables import UNBOUNDED_SPAN
+from pfuzz.base.constants import UNBOUNDED_SPAN
 from pfuzz.base.charset import CharSet
-from pfuzz.automata.dfa import explore, from_strings, minimise
+from pfuzz.automata.dfa import explore
+from pfuzz.automata.minimise import minimise
+from pfuzz.automata.algebra import from_strings
 from pfuzz.boundary.paths import Guide
 
 #: Realistic validator patterns; every case's verdict is checked against re.fullmatch.

@@ -15,7 +15,8 @@ from hypothesis import given, settings, strategies as st
 import pfuzz
 from helpers import strings_upto
 from pfuzz.base.charset import CharSet
-from pfuzz.audit.comparison import COUNT_SPAN, compare, count_bound, lift, summarise
+from pfuzz.base.constants import COUNT_SPAN
+from pfuzz.audit.comparison import compare, count_bound, lift, summarise
 
 N = 6
 

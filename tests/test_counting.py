@@ -13,8 +13,10 @@ import pytest
 
 import pfuzz
 from pfuzz.base.charset import CharSet
-from pfuzz.counting.tables import UNBOUNDED_SPAN, Counter
-from pfuzz.automata.dfa import empty, explore, minimise
+from pfuzz.base.constants import UNBOUNDED_SPAN
+from pfuzz.counting.tables import Counter
+from pfuzz.automata.dfa import empty, explore
+from pfuzz.automata.minimise import minimise
 
 
 def counter(pattern: str, alphabet="printable") -> Counter:

@@ -9,9 +9,10 @@ accept the same set of suffixes.
 from hypothesis import given, settings
 
 from helpers import ALL_STRINGS, ALPHABET, language, random_dfas
-from pfuzz.automata import dfa as automata
+from pfuzz.automata import algebra, dfa as automata, minimise as minimisation
 from pfuzz.base.charset import CharSet, partition
-from pfuzz.automata.dfa import DEAD, explore, minimise
+from pfuzz.automata.dfa import DEAD, explore
+from pfuzz.automata.minimise import minimise
 
 
 def suffixes(d, state: int) -> frozenset[str]:
@@ -54,16 +55,16 @@ def test_moore_and_hopcroft_agree():
     classes = partition([CharSet.single("a")], alphabet)
     def step(window, c):
         return (window + ("ab"[c],))[-7:]
-    d = automata.trim(explore((), step, lambda w: len(w) == 7 and w[0] == "a", classes, alphabet))
-    moore = automata._moore_blocks(d, 10**9)
-    hopcroft = automata._hopcroft_blocks(d)
+    d = minimisation.trim(explore((), step, lambda w: len(w) == 7 and w[0] == "a", classes, alphabet))
+    moore = minimisation._moore_blocks(d, 10**9)
+    hopcroft = minimisation._hopcroft_blocks(d)
     assert len(set(moore)) == len(set(hopcroft))
     pairs = {(m, h) for m, h in zip(moore, hopcroft)}
     assert len(pairs) == len(set(moore))                  # the same partition
 
 
 def test_from_strings_and_class_lookup():
-    d = automata.from_strings(["ab", "abc", "c"], ALPHABET)
+    d = algebra.from_strings(["ab", "abc", "c"], ALPHABET)
     assert language(d) == {"ab", "abc", "c"}
     assert d.class_of("z") == -1 and not d.accepts("abz")
     assert automata.universal(ALPHABET).accepts("cab")

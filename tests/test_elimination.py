@@ -20,7 +20,9 @@ from hypothesis import given, settings, strategies as st
 from helpers import strings_upto
 from pfuzz.base.charset import ALPHABETS, CharSet
 from pfuzz.automata.algebra import concatenate, difference, distinguish
-from pfuzz.automata.dfa import DFA, explore, from_strings, minimise, universal
+from pfuzz.automata.dfa import DFA, explore, universal
+from pfuzz.automata.minimise import minimise
+from pfuzz.automata.algebra import from_strings
 from pfuzz.automata.elimination import DEFAULT_LIMIT, NOTHING_TEXT, pattern_of
 
 PRINTABLE = ALPHABETS["printable"]

@@ -10,7 +10,8 @@ from scipy.stats import chisquare
 import pfuzz
 from pfuzz.counting.tables import Counter
 from pfuzz.errors import EmptyLanguageError, PfuzzError
-from pfuzz.nearmiss.rejects import KINDS, kinds_of, near_miss_dfa, sample_rejects
+from pfuzz.base.constants import EDIT_KINDS
+from pfuzz.nearmiss.rejects import kinds_of, near_miss_dfa, sample_rejects
 from pfuzz.nearmiss.witness import apply_edits
 
 
@@ -143,7 +144,7 @@ def test_rejects_are_rejected_and_explained():
         assert re.fullmatch(PLATE, reject.witness)
         assert apply_edits(reject.witness, reject.edits) == reject.text
         assert reject.distance == len(reject.edits) == 1
-        assert reject.kinds and set(reject.kinds) <= set(KINDS)
+        assert reject.kinds and set(reject.kinds) <= set(EDIT_KINDS)
 
 
 def test_same_seed_same_rejects():
@@ -156,7 +157,7 @@ def test_same_seed_same_rejects():
 def test_strata_get_equal_shares_and_interleave():
     lang = pfuzz.compile("[0-9]{3}")
     rejects = sample_rejects(lang.dfa, 9, seed=1, kinds=["insert", "delete", "replace"])
-    assert [len(r.text) for r in rejects] == [2, 4, 3] * 3  # order of KINDS: delete, insert, replace
+    assert [len(r.text) for r in rejects] == [2, 4, 3] * 3  # order of EDIT_KINDS: delete, insert, replace
 
 
 def test_empty_strata_pass_their_share_on():

@@ -10,8 +10,10 @@ import pytest
 import pfuzz
 from helpers import strings_upto
 from pfuzz.automata import dfa as automata
+from pfuzz.automata.minimise import minimise
 from pfuzz.nearmiss import neighbourhood
-from pfuzz.nearmiss.neighbourhood import KINDS, build, edge_characters
+from pfuzz.base.constants import EDIT_KINDS
+from pfuzz.nearmiss.neighbourhood import build, edge_characters
 
 
 @pytest.mark.parametrize("seed", range(6))
@@ -19,7 +21,7 @@ def test_cutting_dominated_states_keeps_the_language(seed, monkeypatch):
     rng = random.Random(seed)
     pattern = "".join(rng.choice(["a", "b", "[ab]", "(ab)?", "a*", "(a|bb)"]) for _ in range(4))
     dfa = pfuzz.compile(pattern, alphabet="[ab]").dfa
-    kinds = tuple(rng.sample(KINDS, rng.randint(1, 4)))
+    kinds = tuple(rng.sample(EDIT_KINDS, rng.randint(1, 4)))
     cut = build(dfa, 2, kinds, False)
     monkeypatch.setattr(neighbourhood, "beaten", lambda sim: [0] * (sim.shape[0] - 1))
     assert build(dfa, 2, kinds, False) == cut
@@ -73,7 +75,7 @@ def test_edges_mode_is_its_definition(seed):
         if rx.fullmatch(w):
             expected |= {s for s in one_edge_edit(w, lang.dfa) if len(s) <= 4}
     expected = {s for s in expected if not rx.fullmatch(s)}
-    nm = build(lang.dfa, 1, KINDS, True)
+    nm = build(lang.dfa, 1, EDIT_KINDS, True)
     assert {s for s in strings_upto("abcde", 4) if nm.accepts(s)} == expected, pattern
 
 
@@ -81,7 +83,7 @@ def test_edges_mode_is_its_definition(seed):
 def test_edges_mode_cuts_keep_the_language(seed, monkeypatch):
     rng = random.Random(seed)
     dfa = pfuzz.compile(edges_pattern(rng), alphabet="[a-e]").dfa
-    kinds = tuple(rng.sample(KINDS, rng.randint(2, 4)))
+    kinds = tuple(rng.sample(EDIT_KINDS, rng.randint(2, 4)))
     distance = 2 + seed % 2
     cut = build(dfa, distance, kinds, True)
     monkeypatch.setattr(neighbourhood, "beaten", lambda sim: [0] * (sim.shape[0] - 1))
@@ -92,8 +94,8 @@ def test_edges_mode_cuts_keep_the_language(seed, monkeypatch):
 def test_the_unrolled_distance_one_step_is_the_general_step(edges):
     for seed in range(6):
         dfa = pfuzz.compile(edges_pattern(random.Random(seed)), alphabet="[a-e]").dfa
-        plan = neighbourhood._Neighbourhood(dfa, 1, KINDS, edges)
-        built = [automata.minimise(automata.explore(plan.start(), step, plan.is_accepting,
+        plan = neighbourhood._Neighbourhood(dfa, 1, EDIT_KINDS, edges)
+        built = [minimise(automata.explore(plan.start(), step, plan.is_accepting,
                                                     plan.classes, dfa.alphabet))
                  for step in (plan.step, plan.step_one)]
-        assert built[0] == built[1] == build(dfa, 1, KINDS, edges)
+        assert built[0] == built[1] == build(dfa, 1, EDIT_KINDS, edges)

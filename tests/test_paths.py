@@ -13,7 +13,9 @@ import pytest
 
 from helpers import strings_upto
 from pfuzz.base.charset import CharSet
-from pfuzz.automata.dfa import explore, from_strings, minimise
+from pfuzz.automata.dfa import explore
+from pfuzz.automata.minimise import minimise
+from pfuzz.automata.algebra import from_strings
 from pfuzz.boundary.paths import Guide, Lengths
 
 LETTERS = "abc"

@@ -9,7 +9,8 @@ from pathlib import Path
 import pytest
 
 from pfuzz.errors import PfuzzError, ProfileError
-from pfuzz.profile.loader import DEFAULT_INVALID, DEFAULT_VALID, EDIT_KINDS, load_profile, parse_profile
+from pfuzz.base.constants import EDIT_KINDS
+from pfuzz.profile.loader import DEFAULT_INVALID, DEFAULT_VALID, load_profile, parse_profile
 
 DEMO = Path(__file__).resolve().parent.parent / "profiles" / "demo.toml"
 

@@ -6,6 +6,7 @@ import pytest
 
 import pfuzz
 from pfuzz.automata import dfa as automata
+from pfuzz.automata.minimise import minimise
 from pfuzz.automata.algebra import difference
 from pfuzz.automata.simulation import beaten, simulation
 
@@ -16,7 +17,7 @@ def dominators(dfa, *relations):
 
 def from_state(dfa, q):
     """The language of ``dfa`` read from state q."""
-    return automata.minimise(automata.explore(
+    return minimise(automata.explore(
         q, lambda s, c: None if dfa.table[s][c] < 0 else dfa.table[s][c],
         lambda s: s in dfa.accepting, dfa.classes, dfa.alphabet))
 

@@ -21,12 +21,12 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from pfuzz.base.charset import CharSet
-from pfuzz.automata.dfa import DEAD, DFA, minimise
+from pfuzz.automata.dfa import DEAD, DFA
+from pfuzz.automata.minimise import minimise
 from pfuzz.automata.elimination import DEFAULT_LIMIT
+from pfuzz.base.constants import COUNT_SPAN
 from pfuzz.language import Language
 
-#: Lengths counted past the shortest length of an unbounded difference.
-COUNT_SPAN = 16
 #: Shortest examples listed per side.
 DEFAULT_EXAMPLES = 5
 

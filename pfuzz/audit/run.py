@@ -51,6 +51,7 @@ from dataclasses import dataclass, field
 from pfuzz.base import randomness
 from pfuzz.base.charset import CharSet
 from pfuzz.audit.comparison import Comparison, compare, lift
+from pfuzz.base.constants import EDIT_KINDS
 from pfuzz.errors import EmptyLanguageError, PatternError, StateLimitError
 from pfuzz.audit.hostile import HOSTILE_CHARACTERS, Variant, case_flips, hostile_variants
 from pfuzz.language import Language
@@ -64,7 +65,6 @@ EDGE_SHARE = 4
 DEFAULT_REJECT_ALPHABET = "latin1"
 #: Valid strings that hostile variants and case flips are made from.
 WITNESSES = 8
-EDIT_KINDS = ("delete", "insert", "replace", "swap")
 #: Report order of categories when their shortest failures are equally long.
 CATEGORY_ORDER = ("length-edge", "range-edge", "near-miss", "hostile", "case-flip",
                   "shortest", "longest", "coverage", "exit", "valid")

@@ -34,11 +34,11 @@ import sys
 from dataclasses import dataclass
 from typing import Callable
 
+from pfuzz.base.constants import CALL_MODES
 from pfuzz.errors import TargetError
 
 #: Seconds a command target may take for the whole run.
 DEFAULT_TIMEOUT = 60.0
-MODES = ("fullmatch", "match", "search")
 ACCEPT_WORDS = ("1", "true", "accept")
 REJECT_WORDS = ("0", "false", "reject")
 
@@ -178,8 +178,8 @@ class RegexTarget:
     """A Python ``re`` pattern called as ``re.<mode>(pattern, text)``."""
 
     def __init__(self, pattern: str, mode: str = "fullmatch"):
-        if mode not in MODES:
-            raise TargetError(f"--mode must be one of {', '.join(MODES)}, not {mode!r}")
+        if mode not in CALL_MODES:
+            raise TargetError(f"--mode must be one of {', '.join(CALL_MODES)}, not {mode!r}")
         try:
             compiled = re.compile(pattern)
         except re.error as error:

@@ -29,10 +29,11 @@ stop with ``StateLimitError`` past the state cap.
 from __future__ import annotations
 
 from collections import deque
-from typing import Callable, Optional
+from typing import Callable, Iterable, Optional
 
 from pfuzz.base.charset import CharSet, partition
-from pfuzz.automata.dfa import DEAD, DEFAULT_STATE_CAP, DFA, empty, explore, minimise, universal
+from pfuzz.automata.dfa import DEAD, DEFAULT_STATE_CAP, DFA, empty, explore, universal
+from pfuzz.automata.minimise import minimise
 from pfuzz.errors import ArgumentError
 
 def _common_classes(a: DFA, b: DFA) -> tuple[list[CharSet], list[int], list[int]]:
@@ -204,3 +205,17 @@ def longest_completions(dfa: DFA) -> Optional[list[int]]:
                 here = max(here, best[t] + 1)
         best[s] = here
     return best
+
+
+def from_strings(strings: Iterable[str], alphabet: CharSet) -> DFA:
+    """The minimal DFA of a finite set of strings (those inside the alphabet)."""
+    words = [w for w in strings if all(ch in alphabet for ch in w)]
+    chars = {ord(ch) for w in words for ch in w}
+    classes = partition([CharSet.single(p) for p in chars], alphabet)
+    probe = [c.min for c in classes]
+
+    def step(prefix, c):
+        nxt = prefix + chr(probe[c])
+        return nxt if any(w.startswith(nxt) for w in words) else None
+
+    return minimise(explore("", step, lambda p: p in words, classes, alphabet))

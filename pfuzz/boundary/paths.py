@@ -33,7 +33,7 @@ from functools import cached_property
 
 from pfuzz.automata import algebra
 from pfuzz.base.charset import CharSet
-from pfuzz.counting.tables import UNBOUNDED_SPAN  # one default length bound for unbounded languages
+from pfuzz.base.constants import UNBOUNDED_SPAN
 from pfuzz.automata.dfa import DFA, transitions
 
 

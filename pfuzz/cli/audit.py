@@ -11,7 +11,8 @@ import click
 from pfuzz.audit.run import (DEFAULT_REJECT_ALPHABET, DEFAULT_REJECTS, DEFAULT_VALID, EDIT_KINDS,
                      AuditReport, Settings, run_audit, stages)
 from pfuzz.errors import TargetError
-from pfuzz.audit.targets import DEFAULT_TIMEOUT, MODES, CommandTarget, PythonTarget, RegexTarget
+from pfuzz.base.constants import CALL_MODES
+from pfuzz.audit.targets import DEFAULT_TIMEOUT, CommandTarget, PythonTarget, RegexTarget
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
                      language_options, max_length_option, min_length_option, out_option,
                      read_pattern_file, report_errors, seed_option)
@@ -34,7 +35,7 @@ EXACT_ROWS = 6
 @click.option("--cmd", "command", metavar="COMMAND",
               help="A command reading one JSON string per line, answering 1/0 per line.")
 @click.option("--regex", metavar="R", help="A Python regex as the validator uses it (checked exactly).")
-@click.option("--mode", type=click.Choice(MODES), default="fullmatch", show_default=True,
+@click.option("--mode", type=click.Choice(CALL_MODES), default="fullmatch", show_default=True,
               help="How the code calls --regex: re.fullmatch, re.match or re.search.")
 @language_options
 @min_length_option

@@ -14,9 +14,10 @@ import sys
 
 import click
 
-from pfuzz.counting.tables import UNBOUNDED_SPAN
+from pfuzz.base.constants import UNBOUNDED_SPAN
 from pfuzz.automata.algebra import is_finite
-from pfuzz.nearmiss.rejects import KINDS, length_range, near_miss_dfa, sample_rejects
+from pfuzz.base.constants import EDIT_KINDS
+from pfuzz.nearmiss.rejects import length_range, near_miss_dfa, sample_rejects
 from .common import (EXIT_DIFFERENT, compile_language, emit, escape_text, fail, format_option,
                      how_many_option, language_options, max_length_option, min_length_option,
                      out_option, pattern_input, report_errors, seed_option)
@@ -29,7 +30,7 @@ from .common import render_strings, wants_progress
 @how_many_option("rejects")
 @click.option("--distance", type=click.IntRange(min=1), default=1, show_default=True,
               help="Edit distance (optimal string alignment) from the nearest valid string.")
-@click.option("--kind", "kinds", type=click.Choice(KINDS), multiple=True,
+@click.option("--kind", "kinds", type=click.Choice(EDIT_KINDS), multiple=True,
               help="Only edits of this kind (repeatable); several kinds share the rejects "
                    "equally. Default: the whole near-miss language.")
 @click.option("--edges", is_flag=True,

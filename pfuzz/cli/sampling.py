@@ -14,7 +14,7 @@ import warnings
 
 import click
 
-from pfuzz.counting.tables import UNBOUNDED_SPAN
+from pfuzz.base.constants import UNBOUNDED_SPAN
 from pfuzz.errors import PfuzzWarning
 from pfuzz.counting.sampler import METHODS
 from .common import (compile_language, emit, fail, format_option, how_many_option,

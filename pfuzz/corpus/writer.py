@@ -56,7 +56,7 @@ from typing import Callable
 
 from pfuzz import __version__
 from pfuzz.corpus import context as records
-from pfuzz.counting.tables import UNBOUNDED_SPAN
+from pfuzz.base.constants import UNBOUNDED_SPAN
 from pfuzz.corpus.formats import (CHECKSUMS_NAME, FORMAT_TAG, MANIFEST_NAME, Staging, check_target,
                           csv_writer, json_text, jsonl_line)
 from pfuzz.corpus.rows import (RecordTables, case_ids, edit_list, record_tables,

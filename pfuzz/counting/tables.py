@@ -42,11 +42,9 @@ from typing import Iterator
 
 from pfuzz.automata import algebra
 from pfuzz.automata.dfa import DFA, transitions
+from pfuzz.base.constants import UNBOUNDED_SPAN
 from pfuzz.errors import ArgumentError, NotInLanguageError, RankOutOfRangeError
 
-#: For a language without a longest string, the default ``max_length`` is
-#: this many characters above the shortest length considered.
-UNBOUNDED_SPAN = 32
 
 
 class Counter:

@@ -16,7 +16,7 @@ end of a pending swap (the table's entry for c), and then characters of w
 that s lacks (ε-moves under any class, one cost each). The start
 configuration is closed under those too. The configurations are determinised
 by ``pfuzz.automata.dfa.explore`` (the subset construction, Rabin & Scott 1959) and
-minimised by ``pfuzz.automata.dfa.minimise`` (Hopcroft 1971). R_0 is L's own run, so
+minimised by ``pfuzz.automata.minimise.minimise`` (Hopcroft 1971). R_0 is L's own run, so
 "s is not in L" is read off the same configuration: the product with the
 complement of L is folded in rather than built as a second product.
 
@@ -71,11 +71,11 @@ bounded e-mail pattern has a 9,500-state minimal near-miss DFA at distance
 from __future__ import annotations
 
 from pfuzz.base.charset import CharSet, partition
-from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA, explore, minimise, transitions
+from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA, explore, transitions
+from pfuzz.automata.minimise import minimise
 from pfuzz.automata.simulation import beaten, simulation
 
 #: The edit kinds, as edits that turn a valid string into a reject.
-KINDS = ("delete", "insert", "replace", "swap")
 
 
 class _Images:

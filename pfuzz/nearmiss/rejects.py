@@ -10,7 +10,7 @@ regular language under such an additive distance are regular;
 ``pfuzz.nearmiss.neighbourhood`` builds the automaton, ``pfuzz.nearmiss.witness`` finds each
 reject's nearest valid string, and this module puts them together.
 
-Kinds. ``kinds`` is a subset of ``KINDS`` = delete, insert, replace, swap,
+Kinds. ``kinds`` is a subset of ``EDIT_KINDS`` = delete, insert, replace, swap,
 named as edits that turn a valid string w into the reject s: ``delete`` drops
 a character of w ("one digit short"), ``insert`` adds one, ``replace``
 substitutes one, ``swap`` transposes two adjacent ones. With ``kinds`` given,
@@ -38,10 +38,11 @@ from pfuzz.base import randomness
 from pfuzz.nearmiss import witness
 from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA
 from pfuzz.errors import ArgumentError, EmptyLanguageError
-from pfuzz.nearmiss.neighbourhood import KINDS, build, edge_characters
+from pfuzz.base.constants import EDIT_KINDS
+from pfuzz.nearmiss.neighbourhood import build, edge_characters
 from pfuzz.nearmiss.witness import Edit, Explanation, by_identity, corrector, explain
 
-__all__ = ["KINDS", "Edit", "Explanation", "Reject", "edge_characters", "explain",
+__all__ = ["EDIT_KINDS", "Edit", "Explanation", "Reject", "edge_characters", "explain",
            "kinds_of", "length_range", "near_miss_dfa", "sample_rejects"]
 
 
@@ -54,18 +55,18 @@ def check_distance(distance) -> int:
 
 
 def check_kinds(kinds: "Iterable[str] | None") -> tuple[str, ...]:
-    """The kinds asked for, validated, in the order of ``KINDS`` (all when None)."""
+    """The kinds asked for, validated, in the order of ``EDIT_KINDS`` (all when None)."""
     if kinds is None:
-        return KINDS
+        return EDIT_KINDS
     if isinstance(kinds, str):
         kinds = [kinds]
     asked = set(kinds)
-    unknown = sorted(asked - set(KINDS))
+    unknown = sorted(asked - set(EDIT_KINDS))
     if unknown:
-        raise ArgumentError(f"unknown edit kind {unknown[0]!r}: use {', '.join(KINDS)}")
+        raise ArgumentError(f"unknown edit kind {unknown[0]!r}: use {', '.join(EDIT_KINDS)}")
     if not asked:
-        raise ArgumentError(f"give at least one edit kind ({', '.join(KINDS)})")
-    return tuple(k for k in KINDS if k in asked)
+        raise ArgumentError(f"give at least one edit kind ({', '.join(EDIT_KINDS)})")
+    return tuple(k for k in EDIT_KINDS if k in asked)
 
 
 _CACHE: dict[tuple, DFA] = {}
@@ -104,7 +105,7 @@ def near_miss_dfa(dfa: DFA, distance: int = 1, kinds: "Sequence[str] | None" = N
 class Reject:
     """A near-miss reject, the kinds of single edit that reach it, and its nearest witness.
 
-    ``kinds`` lists every kind K (in the order of ``KINDS``) whose own
+    ``kinds`` lists every kind K (in the order of ``EDIT_KINDS``) whose own
     language, ``near_miss_dfa(dfa, distance, [K])``, holds the text: for
     distance 1, every kind of one edit that makes it from some valid string.
     For distance >= 2 a reject reachable only by mixing kinds has no kinds.
@@ -142,7 +143,7 @@ class _Rejecter:
         self.dfa, self.distance = dfa, check_distance(distance)
         self.tables = corrector(dfa)
         self.by_kind = [] if distance == 1 else [
-            (kind, corrector(near_miss_dfa(dfa, distance, [kind]))) for kind in KINDS]
+            (kind, corrector(near_miss_dfa(dfa, distance, [kind]))) for kind in EDIT_KINDS]
 
     def kinds(self, text: str) -> tuple[str, ...]:
         if self.distance == 1:
@@ -168,7 +169,7 @@ def sample_rejects(dfa: DFA, n: int, *, distance: int = 1, kinds: "Sequence[str]
     With ``kinds`` None the texts are drawn from the whole near-miss language;
     with kinds given, each kind's own language gets an equal share (kinds
     whose language has no strings in the length range give their share to
-    the others), and the strata are interleaved in the order of ``KINDS``.
+    the others), and the strata are interleaved in the order of ``EDIT_KINDS``.
     Within a stratum, a length is chosen uniformly among the lengths in range
     (``length_range``) that have strings, then a string uniformly at that
     length (``pfuzz.counting.tables``). ``edges`` draws from the range-edge languages (see

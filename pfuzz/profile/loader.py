@@ -33,9 +33,10 @@ from pathlib import Path
 
 from pfuzz.corpus import context as records
 from pfuzz.base.charset import DEFAULT_ALPHABET
-from pfuzz.automata.dfa import explore, minimise
+from pfuzz.automata.dfa import explore
+from pfuzz.automata.minimise import minimise
 from pfuzz.errors import PatternError, ProfileError, StateLimitError, AlphabetError
-from pfuzz.nearmiss.rejects import KINDS as EDIT_KINDS
+from pfuzz.base.constants import EDIT_KINDS
 from pfuzz.profile.tomlcheck import TableReader, hint
 
 DEFAULT_VALID = 100          #: valid strings per field

@@ -29,13 +29,14 @@ import pytest
 import pfuzz
 from helpers import strings_upto
 from pfuzz.counting.tables import Counter
-from pfuzz.nearmiss.rejects import KINDS, near_miss_dfa, sample_rejects
+from pfuzz.base.constants import EDIT_KINDS
+from pfuzz.nearmiss.rejects import near_miss_dfa, sample_rejects
 from pfuzz.nearmiss.witness import apply_edits
 
 INVERSE = {"delete": "insert", "insert": "delete", "replace": "replace", "swap": "swap"}
 
 
-def osa(w: str, s: str, kinds=KINDS) -> int:
+def osa(w: str, s: str, kinds=EDIT_KINDS) -> int:
     """OSA distance from w to s using only ``kinds`` (edits that turn w into s)."""
     far = len(w) + len(s) + 1
     d = [[far] * (len(s) + 1) for _ in range(len(w) + 1)]
@@ -56,7 +57,7 @@ def osa(w: str, s: str, kinds=KINDS) -> int:
     return d[len(w)][len(s)]
 
 
-def single_edits(s: str, alphabet: str, kinds=KINDS) -> set[str]:
+def single_edits(s: str, alphabet: str, kinds=EDIT_KINDS) -> set[str]:
     """Every string made from s by one edit of the given kinds."""
     out = set()
     for i in range(len(s) + 1):
@@ -71,7 +72,7 @@ def single_edits(s: str, alphabet: str, kinds=KINDS) -> set[str]:
     return out
 
 
-def within(s: str, alphabet: str, distance: int, kinds=KINDS) -> list[set[str]]:
+def within(s: str, alphabet: str, distance: int, kinds=EDIT_KINDS) -> list[set[str]]:
     """rings[k]: strings first reached from s by k sequential single edits (k <= distance)."""
     undo = [INVERSE[k] for k in kinds]  # w -> s by ``kinds`` means s -> w by their inverses
     rings, seen = [{s}], {s}
@@ -85,7 +86,7 @@ def within(s: str, alphabet: str, distance: int, kinds=KINDS) -> list[set[str]]:
     return rings
 
 
-def nearest(rx, s: str, alphabet: str, distance: int, kinds=KINDS):
+def nearest(rx, s: str, alphabet: str, distance: int, kinds=EDIT_KINDS):
     """(OSA distance, shortlex-least valid string at it), or None beyond ``distance``."""
     rings = within(s, alphabet, distance, kinds)
     if any(rx.fullmatch(w) for w in rings[1]):  # one edit is OSA distance 1
@@ -135,7 +136,7 @@ def test_near_miss_language_is_the_definition(alphabet, distance, max_length, se
 
 @pytest.mark.parametrize("alphabet,distance,max_length,seed",
                          [c for c in CASES if c[1] == 1][:6] + [c for c in CASES if c[1] == 2][:4])
-@pytest.mark.parametrize("kind", KINDS)
+@pytest.mark.parametrize("kind", EDIT_KINDS)
 def test_each_kind_is_its_own_language(alphabet, distance, max_length, seed, kind):
     pattern, rx, lang = _case(alphabet, seed)
     nm = near_miss_dfa(lang.dfa, distance, [kind])
@@ -170,7 +171,7 @@ def test_sampled_rejects_and_their_kinds(alphabet, distance, max_length, seed):
         assert rx.fullmatch(reject.witness)
         assert apply_edits(reject.witness, reject.edits) == reject.text
         assert reject.distance == len(reject.edits) <= distance
-        kinds = tuple(k for k in KINDS
+        kinds = tuple(k for k in EDIT_KINDS
                       if nearest(rx, reject.text, alphabet, distance, [k]) is not None)
         assert reject.kinds == kinds, (pattern, reject)
 

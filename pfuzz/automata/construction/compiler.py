@@ -6,7 +6,7 @@ sets (and ``'\\n'``) are partitioned into disjoint classes
 (``pfuzz.base.charset.partition``); Thompson's construction (``pfuzz.automata.nfa``) gives an
 ε-NFA over class indexes; the subset construction of Rabin & Scott (1959), run
 by ``pfuzz.automata.dfa.explore`` over the configurations below, gives a DFA, and
-``pfuzz.automata.dfa.minimise`` (partition refinement) the canonical minimal one.
+``pfuzz.automata.minimise.minimise`` (partition refinement) the canonical minimal one.
 
 Assertions are exact, wherever they stand. A DFA configuration is a set of
 *threads*; a thread is an NFA state plus a set of *obligations* on the
@@ -59,9 +59,11 @@ from __future__ import annotations
 from typing import Callable
 
 from pfuzz.automata import dfa as automata
+from pfuzz.automata.minimise import minimise
 from pfuzz.automata.algebra import complement
 from pfuzz.base.charset import ALL, CharSet, partition
 from pfuzz.automata.dfa import DEAD, DEFAULT_STATE_CAP, DFA
+from pfuzz.base.constants import CALL_MODES
 from pfuzz.errors import ArgumentError
 from pfuzz.automata.construction.determinise import (BLOCKED, NEWLINE, NO_OBLIGATIONS, OTHER, START, Determiniser,
                           Obligations)
@@ -75,7 +77,6 @@ Resolver = Callable[[Chars, CharSet], CharSet]
 
 
 #: How a pattern is applied to a string, as the methods of a compiled ``re`` pattern.
-MODES = ("fullmatch", "match", "search")
 
 
 def compile_dfa(pattern: str, alphabet: CharSet, flags: int = 0,
@@ -103,7 +104,7 @@ def in_mode(tree: Node, mode: str) -> Node:
         return Sequence((tree, anything))
     if mode == "search":
         return Sequence((anything, tree, anything))
-    raise ArgumentError(f"unknown match mode {mode!r}: use one of {', '.join(MODES)}")
+    raise ArgumentError(f"unknown match mode {mode!r}: use one of {', '.join(CALL_MODES)}")
 
 
 def compile_tree(tree: Node, alphabet: CharSet, cap: int = DEFAULT_STATE_CAP,
@@ -172,7 +173,7 @@ class _Shared(Obligations):
         runner = Determiniser(self, nfa, _context_map(tree))
         raw = automata.explore(runner.start(context), runner.step, runner.is_accepting,
                                self.classes, self.alphabet, self.cap)
-        return automata.minimise(raw)
+        return minimise(raw)
 
     def assertion(self, node: Anchor | Lookahead, context: int):
         """What taking an assertion edge in ``context`` adds (see ``obligation``)."""
@@ -200,4 +201,4 @@ class _Shared(Obligations):
             rows.append([1 if kind == "line_end" else DEAD] * k)
         table = tuple(tuple(row) for row in rows)
         raw = DFA(self.alphabet, tuple(self.classes), table, frozenset(range(len(rows))))
-        return automata.minimise(raw)
+        return minimise(raw)
