@@ -24,11 +24,10 @@ work, Hopcroft's O(k n log n) pure Python. The 2**17-state automaton of
 from __future__ import annotations
 
 import bisect
-from collections import deque
 from dataclasses import dataclass, field
 from typing import Callable, Container, Hashable, Iterable, Optional
 
-from pfuzz.base.charset import CharSet, partition
+from pfuzz.base.charset import CharSet
 from pfuzz.errors import StateLimitError
 
 #: The most DFA states any construction may build before it stops with an error.
