@@ -78,6 +78,10 @@ class TargetError(PfuzzError):
         self.detail = detail
 
 
+class CorpusExistsError(PfuzzError):
+    """The output folder exists and may not (or cannot safely) be replaced."""
+
+
 class GraphvizError(PfuzzError):
     """The ``dot`` program is missing or failed."""
 

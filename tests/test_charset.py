@@ -66,4 +66,4 @@ def test_describe_is_readable():
     assert CharSet.range("0", "9").describe() == "[0-9]"
     assert CharSet.single("a").describe() == "a"
     assert CharSet.from_chars("-]").describe() == "[\\-\\]]"
-    assert CharSet.single("\n").describe() == "\\x0a"
+    assert CharSet.single("\n").describe() == "\\n"  # the name re and Python literals both read

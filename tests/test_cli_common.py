@@ -3,7 +3,7 @@
 from click.testing import CliRunner
 
 from pfuzz.cli import main
-from pfuzz.cli.common import escape_text, needs_escape
+from pfuzz.base.escaping import escape_text, needs_escape
 
 
 def run(*args):

@@ -13,7 +13,9 @@ from hypothesis import given, settings, strategies as st
 
 from pfuzz.corpus import formats as corpusfiles
 from pfuzz.corpus.writer import CASE_COLUMNS, write_corpus
-from pfuzz.corpus.formats import (CorpusExistsError, csv_text, jsonl_text, read_csv, read_jsonl)
+from pfuzz.base.jsonlines import jsonl_text, read_jsonl
+from pfuzz.corpus.formats import csv_text, read_csv
+from pfuzz.errors import CorpusExistsError
 from pfuzz.errors import ProfileError
 from pfuzz.profile.loader import load_profile
 

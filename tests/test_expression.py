@@ -11,7 +11,8 @@ import re
 import pytest
 
 from pfuzz.base.charset import ALPHABETS, CharSet
-from pfuzz.automata.expression import Algebra, class_text, escape_char
+from pfuzz.automata.expression import Algebra, class_text
+from pfuzz.base.escaping import escape_point
 
 PRINTABLE = ALPHABETS["printable"]
 
@@ -33,7 +34,7 @@ SPECIALS = ".^$*+?{}[]\\|()-&~ \t\n\r\x00\x7f\u00a0\u200b\uff21\U0001F600é"
 @pytest.mark.parametrize("char", list(SPECIALS))
 def test_every_special_character_is_escaped_for_re(char):
     """Reference: Python's re reads the escaped text back as the character itself."""
-    assert re.fullmatch(escape_char(ord(char)), char)
+    assert re.fullmatch(escape_point(ord(char)), char)
     alphabet = ALPHABETS["unicode"]
     for chars in (CharSet.single(char), CharSet.single(char) | CharSet.single("a"),
                   CharSet.range(ord(char), ord(char) + 2)):

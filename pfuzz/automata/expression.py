@@ -27,6 +27,7 @@ proved in ``_gap_free``.
 from __future__ import annotations
 
 from pfuzz.base.charset import CharSet
+from pfuzz.base.escaping import escape_point
 
 #: What each node built is charged against a work budget, besides its text.
 NODE_CHARGE = 64
@@ -34,9 +35,6 @@ NODE_CHARGE = 64
 NOTHING_TEXT = r"[^\s\S]"
 
 ALT, CAT, ATOM = 0, 1, 2
-_SPECIAL = frozenset(".^$*+?{}[]\\|()")
-_CLASS_SPECIAL = frozenset("\\]^-[&~|")
-_NAMED = {"\n": "\\n", "\t": "\\t", "\r": "\\r"}
 
 
 class TooLarge(Exception):
@@ -339,31 +337,16 @@ def _blocks(items: list[Expr], algebra: "Algebra") -> list[Expr]:
 
 # -- class texts ------------------------------------------------------------------
 
-def escape_char(point: int, in_class: bool = False) -> str:
-    """One code point written for a Python ``re`` pattern, outside or inside ``[...]``."""
-    special = _CLASS_SPECIAL if in_class else _SPECIAL
-    char = chr(point)
-    if char in _NAMED:
-        return _NAMED[char]
-    if char in special:
-        return "\\" + char
-    if char == " " or (char.isprintable() and not char.isspace()):
-        return char
-    if point <= 0xFF:
-        return f"\\x{point:02x}"
-    return f"\\u{point:04x}" if point <= 0xFFFF else f"\\U{point:08x}"
-
-
 def _class_body(ranges) -> str:
     parts = []
     for lo, hi in ranges:
-        first = escape_char(lo, True)
+        first = escape_point(lo, "class")
         if lo == hi:
             parts.append(first)
         elif hi == lo + 1:
-            parts.append(first + escape_char(hi, True))
+            parts.append(first + escape_point(hi, "class"))
         else:
-            parts.append(f"{first}-{escape_char(hi, True)}")
+            parts.append(f"{first}-{escape_point(hi, 'class')}")
     return "".join(parts)
 
 
@@ -382,7 +365,7 @@ def class_text(chars: CharSet, alphabet: CharSet) -> str:
     """The shortest of a literal, ``[...]``, ``[^...]`` or ``.`` that means ``chars`` within the alphabet."""
     chars = chars & alphabet
     if len(chars.ranges) == 1 and chars.min == chars.max:
-        return escape_char(chars.min)
+        return escape_point(chars.min)
     candidates = [f"[{_class_body(_bridge(chars, alphabet))}]"]
     others = alphabet - chars
     if others:

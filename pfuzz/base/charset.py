@@ -15,7 +15,10 @@ from __future__ import annotations
 
 import bisect
 from dataclasses import dataclass
-from typing import Iterable, Iterator
+from types import MappingProxyType
+from typing import Iterable, Iterator, Mapping
+
+from pfuzz.base.escaping import escape_point
 
 MAX_CODE_POINT = 0x10FFFF
 SURROGATES = (0xD800, 0xDFFF)
@@ -111,7 +114,22 @@ class CharSet:
 
     # -- algebra -------------------------------------------------------------
     def __or__(self, other: "CharSet") -> "CharSet":
-        return CharSet.of(self.ranges + other.ranges)
+        return CharSet.union([self, other])
+
+    @staticmethod
+    def union(sets: "Iterable[CharSet]") -> "CharSet":
+        """The union of the sets: the ranges of the others inserted into the largest
+        (cheap when a small set joins a category of hundreds of ranges)."""
+        sets = list(sets)
+        if not sets:
+            return CharSet()
+        largest = max(sets, key=lambda s: len(s.ranges))
+        ranges = list(largest.ranges)
+        for other in sets:
+            if other is not largest:
+                for low, high in other.ranges:
+                    _insert(ranges, low, high)
+        return CharSet(tuple(ranges))
 
     def __and__(self, other: "CharSet") -> "CharSet":
         out: list[tuple[int, int]] = []
@@ -156,11 +174,11 @@ class CharSet:
         parts = []
         for lo, hi in self.ranges[:limit]:
             if lo == hi:
-                parts.append(_show(lo))
+                parts.append(escape_point(lo, "class"))
             elif hi == lo + 1:
-                parts.append(_show(lo) + _show(hi))
+                parts.append(escape_point(lo, "class") + escape_point(hi, "class"))
             else:
-                parts.append(f"{_show(lo)}-{_show(hi)}")
+                parts.append(f"{escape_point(lo, 'class')}-{escape_point(hi, 'class')}")
         more = "…" if len(self.ranges) > limit else ""
         body = "".join(parts) + more
         if len(self.ranges) == 1 and self.ranges[0][0] == self.ranges[0][1]:
@@ -171,30 +189,34 @@ class CharSet:
         return f"CharSet({self.describe(limit=8)})"
 
 
-def _show(point: int) -> str:
-    char = chr(point)
-    if char in "[]-\\^":
-        return "\\" + char
-    if char.isprintable() and not char.isspace() or char == " ":
-        return char
-    if point <= 0xFF:
-        return f"\\x{point:02x}"
-    if point <= 0xFFFF:
-        return f"\\u{point:04x}"
-    return f"\\U{point:08x}"
+def _insert(ranges: list[tuple[int, int]], low: int, high: int) -> None:
+    """Add [low, high] to sorted disjoint non-adjacent ``ranges``, merging what it touches."""
+    first = bisect.bisect_left(ranges, low - 1, key=_high_end)
+    stop = bisect.bisect_right(ranges, high + 1, key=_low_end)
+    if first < stop:
+        low, high = min(low, ranges[first][0]), max(high, ranges[stop - 1][1])
+    ranges[first:stop] = [(low, high)]
+
+
+def _low_end(span: tuple[int, int]) -> int:
+    return span[0]
+
+
+def _high_end(span: tuple[int, int]) -> int:
+    return span[1]
 
 
 EMPTY = CharSet()
 ALL = CharSet(((0, MAX_CODE_POINT),))
 
 #: The named alphabets. The default is printable ASCII (95 characters).
-ALPHABETS: dict[str, CharSet] = {
+ALPHABETS: Mapping[str, CharSet] = MappingProxyType({
     "printable": CharSet(((0x20, 0x7E),)),
     "ascii": CharSet(((0x00, 0x7F),)),
     "latin1": CharSet(((0x00, 0xFF),)),
     "bmp": CharSet(((0x0000, SURROGATES[0] - 1), (SURROGATES[1] + 1, 0xFFFF))),
     "unicode": CharSet(((0x0000, SURROGATES[0] - 1), (SURROGATES[1] + 1, MAX_CODE_POINT))),
-}
+})
 DEFAULT_ALPHABET = "printable"
 
 

@@ -9,7 +9,6 @@ parse options, call the library, and print.
 from __future__ import annotations
 
 import functools
-import json
 import re
 import sys
 from pathlib import Path
@@ -20,7 +19,9 @@ import click
 from pfuzz.base.charset import DEFAULT_ALPHABET, ALPHABETS
 from pfuzz.automata.dfa import DEFAULT_STATE_CAP
 from pfuzz.errors import EmptyLanguageError, PatternError, PfuzzError
+from pfuzz.base.escaping import escape_text
 from pfuzz.base.files import write_atomic
+from pfuzz.base.jsonlines import jsonl_line
 
 EXIT_OK, EXIT_DIFFERENT, EXIT_USAGE = 0, 1, 2
 
@@ -163,25 +164,6 @@ def emit(text: str, out: "Path | None") -> None:
         click.echo(f"pfuzz: wrote {out}", err=True)
 
 
-def escape_text(text: str) -> str:
-    r"""One-line form of a string for text output: backslash, newline, CR, tab and
-    other control or invisible characters become Python-style escapes."""
-    out = []
-    for ch in text:
-        if ch == "\\":
-            out.append("\\\\")
-        elif ch.isprintable() or ch == " ":
-            out.append(ch)
-        else:
-            out.append(ch.encode("unicode_escape").decode("ascii"))
-    return "".join(out)
-
-
-def needs_escape(text: str) -> bool:
-    """True when ``escape_text`` would change ``text``."""
-    return not text.isprintable() or "\\" in text
-
-
 #: A progress bar is shown from this many items on when standard error is a terminal ...
 PROGRESS_TTY_MIN = 10_000
 #: ... and from this many on in any case.
@@ -201,7 +183,7 @@ def note(message: str) -> None:
 def render_strings(strings: list[str], fmt: str) -> str:
     """Strings as ``text`` (one per line, escaped where needed, said on stderr) or ``jsonl``."""
     if fmt == "jsonl":
-        return "".join(json.dumps(s, ensure_ascii=False) + "\n" for s in strings)
+        return "".join(jsonl_line(s) for s in strings)
     lines, escaped = [], 0
     for s in strings:
         # Same test as common.needs_escape, in C speed: printable and no backslash.

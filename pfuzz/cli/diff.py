@@ -2,12 +2,12 @@
 
 from __future__ import annotations
 
-import json
 import sys
 from pathlib import Path
 
 import click
 
+from pfuzz.base.jsonlines import json_text
 from pfuzz.audit.comparison import DEFAULT_EXAMPLES, Comparison, Side, compare
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, escape_text, fail,
                      format_option, language_options, max_length_option, out_option,
@@ -46,7 +46,7 @@ def diff(patterns, pattern_files, alphabet, flags, state_cap, max_length, exampl
     if fmt == "json":
         document = {"a": pattern_a, "b": pattern_b, "alphabet": a.alphabet_name,
                     **comparison_dict(result)}
-        emit(json.dumps(document, ensure_ascii=False, indent=2) + "\n", out)
+        emit(json_text(document, indent=2, sort_keys=False) + "\n", out)
     else:
         lines = [f"A: {pattern_a}", f"B: {pattern_b}", f"alphabet: {a.alphabet_name}",
                  *comparison_lines(result)]

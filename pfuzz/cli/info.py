@@ -2,9 +2,10 @@
 
 from __future__ import annotations
 
-import json
 
 import click
+
+from pfuzz.base.jsonlines import json_text
 
 from .common import (compile_language, emit, format_option, language_options, out_option,
                      pattern_input, report_errors)
@@ -26,7 +27,7 @@ def info(pattern, alphabet, flags, state_cap, fmt, out):
     lang = compile_language(pattern, alphabet, flags, state_cap)
     facts = describe(lang)
     if fmt == "json":
-        emit(json.dumps(facts, ensure_ascii=False, indent=2) + "\n", out)
+        emit(json_text(facts, indent=2, sort_keys=False) + "\n", out)
         return
     rows = [
         ("pattern", pattern),

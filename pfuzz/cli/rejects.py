@@ -9,11 +9,11 @@ when it rejects it, like ``grep``.
 from __future__ import annotations
 
 import functools
-import json
 import sys
 
 import click
 
+from pfuzz.base.jsonlines import json_text, jsonl_line
 from pfuzz.base.constants import UNBOUNDED_SPAN
 from pfuzz.automata.algebra import is_finite
 from pfuzz.base.constants import EDIT_KINDS
@@ -74,7 +74,7 @@ def reject(pattern, alphabet, flags, state_cap, how_many, distance, kinds, edges
     else:
         rejects = sample_rejects(lang.dfa, how_many, **arguments)
     if fmt == "jsonl":
-        emit("".join(json.dumps(r.as_dict(), ensure_ascii=False) + "\n" for r in rejects), out)
+        emit("".join(jsonl_line(r.as_dict()) for r in rejects), out)
     else:
         emit(render_strings([r.text for r in rejects], "text"), out)
 
@@ -118,7 +118,7 @@ def explain(pattern, text, alphabet, flags, state_cap, fmt, out):
     if fmt == "json":
         document = {"pattern": lang.pattern, "alphabet": lang.alphabet_name, **why.as_dict(),
                     "edits_text": [str(e) for e in why.edits]}
-        emit(json.dumps(document, ensure_ascii=False, indent=2) + "\n", out)
+        emit(json_text(document, indent=2, sort_keys=False) + "\n", out)
     else:
         emit(render_explanation(why), out)
     if not why.accepted:

@@ -8,12 +8,12 @@ strings than asked) and the progress bar go to standard error.
 from __future__ import annotations
 
 import contextlib
-import json
 import sys
 import warnings
 
 import click
 
+from pfuzz.base.jsonlines import json_text
 from pfuzz.base.constants import UNBOUNDED_SPAN
 from pfuzz.errors import PfuzzWarning
 from pfuzz.counting.sampler import METHODS
@@ -87,7 +87,7 @@ def _render_counts(lang, table: dict[int, int], fmt: str, defaulted: bool) -> st
             "counts": [{"length": k, "count": v} for k, v in table.items()],
             "total": total, "language_total": lang.total,
         }
-        return json.dumps(document, ensure_ascii=False, indent=2) + "\n"
+        return json_text(document, indent=2, sort_keys=False) + "\n"
     if fmt == "csv":
         rows = ["length,count", *(f"{k},{v}" for k, v in table.items()), f"total,{total}"]
         return "\r\n".join(rows) + "\r\n"

@@ -3,12 +3,7 @@
 Formats. Every string a corpus holds must come back exactly, whatever it
 contains (commas, quotes, CR, LF, tabs, NUL, leading spaces, non-ASCII):
 
-- JSON Lines (one JSON object per line, UTF-8, ``ensure_ascii=False``, keys
-  sorted; the manifest keeps the fixed order its writer gives, which is as
-  deterministic and reads better). JSON escapes every control character below U+0020; the three
-  characters that some line splitters also treat as line ends (U+0085,
-  U+2028, U+2029, for example Python's ``str.splitlines``) are written as
-  ``\\u`` escapes too, so one object is always one physical line.
+- JSON Lines, written by ``pfuzz.base.jsonlines`` (one object per physical line).
 - CSV as RFC 4180 describes it: comma separated, CRLF line ends, fields that
   hold a comma, a quote, CR or LF quoted with doubled quotes (the ``csv``
   module, written and read with ``newline=''``).
@@ -28,56 +23,21 @@ from __future__ import annotations
 
 import csv
 import io
-import json
 import os
 import shutil
 import tempfile
 from contextlib import contextmanager
+import json
 from pathlib import Path
 from typing import Iterator, TextIO
 
-from pfuzz.errors import PfuzzError
+from pfuzz.errors import CorpusExistsError
 from pfuzz.base.files import Checksum, atomic_writer, current_umask
 
 #: Written by every corpus; ``--force`` replaces only a directory that holds it.
 MANIFEST_NAME = "manifest.json"
 CHECKSUMS_NAME = "SHA256SUMS"
 FORMAT_TAG = "pfuzz-corpus/1"
-
-_LINE_BREAKERS = {"\u0085": "\\u0085", "\u2028": "\\u2028", "\u2029": "\\u2029"}
-
-
-class CorpusExistsError(PfuzzError):
-    """The output directory exists and may not (or cannot safely) be replaced."""
-
-
-_LINE_ENCODER = json.JSONEncoder(ensure_ascii=False, sort_keys=True)
-
-
-def json_text(value, indent: int | None = None, sort_keys: bool = True) -> str:
-    """Deterministic JSON: sorted keys (or the caller's fixed order), UTF-8 text, no raw
-    line-breaking characters."""
-    if indent is None and sort_keys:
-        text = _LINE_ENCODER.encode(value)
-    else:
-        text = json.dumps(value, ensure_ascii=False, sort_keys=sort_keys, indent=indent)
-    for char, escape in _LINE_BREAKERS.items():
-        text = text.replace(char, escape)
-    return text
-
-
-def jsonl_line(row) -> str:
-    """One JSON Lines record: the object and its line end."""
-    return json_text(row) + "\n"
-
-
-def jsonl_text(rows) -> str:
-    return "".join(jsonl_line(row) for row in rows)
-
-
-def read_jsonl(text: str) -> list:
-    return [json.loads(line) for line in text.split("\n") if line]
-
 
 def csv_writer(handle: TextIO):
     """An RFC 4180 writer on ``handle`` (which must not translate line ends)."""

@@ -24,7 +24,7 @@ from dataclasses import dataclass
 from typing import Iterator
 
 from pfuzz.corpus import context as records
-from pfuzz.corpus.formats import json_text
+from pfuzz.base.jsonlines import json_text
 from pfuzz.profile.loader import Record
 from pfuzz.base.randomness import RandomSource
 

@@ -57,8 +57,8 @@ from typing import Callable
 from pfuzz import __version__
 from pfuzz.corpus import context as records
 from pfuzz.base.constants import UNBOUNDED_SPAN
-from pfuzz.corpus.formats import (CHECKSUMS_NAME, FORMAT_TAG, MANIFEST_NAME, Staging, check_target,
-                          csv_writer, json_text, jsonl_line)
+from pfuzz.base.jsonlines import json_text, jsonl_line
+from pfuzz.corpus.formats import (CHECKSUMS_NAME, FORMAT_TAG, MANIFEST_NAME, Staging, check_target, csv_writer)
 from pfuzz.corpus.rows import (RecordTables, case_ids, edit_list, record_tables,
                          reject_reason)
 from pfuzz.errors import ArgumentError, ProfileError

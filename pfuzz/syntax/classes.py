@@ -15,7 +15,6 @@ Negation complements over all code points 0..0x10FFFF.
 
 from __future__ import annotations
 
-import bisect
 from dataclasses import dataclass
 
 from pfuzz.syntax.categories import category
@@ -44,7 +43,7 @@ def read_class(pattern: str, start: int, ascii_only: bool) -> CharClass:
             raise PatternError("unterminated character set", pattern, start)
         member, index = _member(pattern, index, start, ascii_only)
         members.append(member)
-    chars = union(members)
+    chars = CharSet.union(members)
     return CharClass(chars.complement() if negated else chars, negated, index + 1)
 
 
@@ -53,34 +52,6 @@ def escape_chars(escape: Escape, ascii_only: bool) -> CharSet:
     if escape.kind == "category":
         return category(escape.value, ascii_only)
     return CharSet.single(escape.value)
-
-
-def union(sets: list[CharSet]) -> CharSet:
-    """The union of the sets, inserting the ranges of the others into the largest."""
-    largest = max(sets, key=lambda s: len(s.ranges))
-    ranges = list(largest.ranges)
-    for other in sets:
-        if other is not largest:
-            for low, high in other.ranges:
-                _insert(ranges, low, high)
-    return CharSet(tuple(ranges))
-
-
-def _insert(ranges: list[tuple[int, int]], low: int, high: int) -> None:
-    """Add [low, high] to sorted disjoint non-adjacent ``ranges``, merging what it touches."""
-    first = bisect.bisect_left(ranges, low - 1, key=_high_end)
-    stop = bisect.bisect_right(ranges, high + 1, key=_low_end)
-    if first < stop:
-        low, high = min(low, ranges[first][0]), max(high, ranges[stop - 1][1])
-    ranges[first:stop] = [(low, high)]
-
-
-def _low_end(span: tuple[int, int]) -> int:
-    return span[0]
-
-
-def _high_end(span: tuple[int, int]) -> int:
-    return span[1]
 
 
 def _member(pattern: str, index: int, start: int, ascii_only: bool) -> tuple[CharSet, int]:

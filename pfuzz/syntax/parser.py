@@ -39,7 +39,7 @@ import warnings
 from dataclasses import dataclass
 
 from pfuzz.base.charset import ALL, CharSet
-from pfuzz.syntax.classes import escape_chars, read_class, union
+from pfuzz.syntax.classes import escape_chars, read_class
 from pfuzz.errors import PatternError
 from pfuzz.syntax.escapes import read_escape
 from pfuzz.syntax.tree import Alternation, Anchor, Chars, Lookahead, Node, Repeat, Sequence
@@ -413,7 +413,7 @@ def _merge_options(options: list[list[_Item]], start: int) -> Chars | None:
     atoms = [_single_plain(option) for option in options]
     if any(atom is None for atom in atoms) or len({atom.flags for atom in atoms}) != 1:
         return None
-    chars = union([atom.chars for atom in atoms])
+    chars = CharSet.union([atom.chars for atom in atoms])
     source = "|".join(atom.source for atom in atoms)
     return Chars(chars, start, source, atoms[0].flags)
 

@@ -16,7 +16,8 @@ from pathlib import Path
 
 import pytest
 
-from pfuzz.corpus.formats import read_csv, read_jsonl
+from pfuzz.base.jsonlines import read_jsonl
+from pfuzz.corpus.formats import read_csv
 from pfuzz.corpus.writer import write_corpus
 from pfuzz.profile.loader import load_profile
 from pfuzz.base.randomness import RandomSource
