@@ -10,20 +10,28 @@ edit neighbourhood, and writes boundary suites and paired corpora.
     >>> lang = pfuzz.compile(r"[A-Z]{2}[0-9]{4}")
     >>> lang.accepts("AB1234")
     True
+
+What users receive is exported here; the stage packages below it (``base``,
+``syntax``, ``automata``, ``counting``, ``nearmiss``, ``boundary``, ``profile``,
+``corpus``, ``audit``) are the pipeline's rooms, importable but not the API.
 """
 
-from pfuzz.base.charset import CharSet, ALPHABETS
 from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA
-from pfuzz.errors import (ArgumentError, EmptyLanguageError, GraphvizError, NotInLanguageError, PatternError,
-                     PfuzzError, ProfileError, RankOutOfRangeError, StateLimitError, TargetError,
-                     AlphabetError)
+from pfuzz.base.charset import ALPHABETS, CharSet
+from pfuzz.boundary.suite import Case
+from pfuzz.errors import (AlphabetError, ArgumentError, CorpusExistsError, EmptyLanguageError,
+                          GraphvizError, NotInLanguageError, PatternError, PfuzzError,
+                          PfuzzWarning, ProfileError, RankOutOfRangeError, StateLimitError,
+                          TargetError)
 from pfuzz.language import Language, compile
+from pfuzz.nearmiss.edits import Edit, Explanation
+from pfuzz.nearmiss.rejects import Reject
 
 __version__ = "0.1.0"
 
 __all__ = [
-    "ArgumentError", "CharSet", "DFA", "DEFAULT_STATE_CAP", "EmptyLanguageError", "GraphvizError",
-    "Language", "NotInLanguageError", "PatternError", "PfuzzError", "ProfileError",
-    "RankOutOfRangeError", "StateLimitError", "TargetError", "ALPHABETS", "AlphabetError", "compile",
-    "__version__",
+    "ALPHABETS", "AlphabetError", "ArgumentError", "Case", "CharSet", "CorpusExistsError", "DFA",
+    "DEFAULT_STATE_CAP", "Edit", "EmptyLanguageError", "Explanation", "GraphvizError", "Language",
+    "NotInLanguageError", "PatternError", "PfuzzError", "PfuzzWarning", "ProfileError",
+    "RankOutOfRangeError", "Reject", "StateLimitError", "TargetError", "compile", "__version__",
 ]

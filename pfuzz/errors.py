@@ -16,7 +16,9 @@ class PatternError(PfuzzError, ValueError):
     """A pattern pfuzz cannot compile: bad syntax or a construct that is not regular.
 
     ``position`` is the 0-based index into ``pattern`` (as ``re.error.pos``),
-    or None when the error concerns the pattern as a whole.
+    or None when the error concerns the pattern as a whole; ``lineno`` and
+    ``colno`` are its 1-based line and column (as ``re.error``), so an error in a
+    verbose ``(?x)`` pattern written over several lines points at its own line.
     """
 
     def __init__(self, message: str, pattern: str | None = None, position: int | None = None):
@@ -24,13 +26,37 @@ class PatternError(PfuzzError, ValueError):
         self.message = message
         self.pattern = pattern
         self.position = position
+        self.lineno: int | None = None
+        self.colno: int | None = None
+        if pattern is not None and position is not None:
+            self.lineno = pattern.count("\n", 0, position) + 1
+            self.colno = position - (pattern.rfind("\n", 0, position) + 1) + 1
+
+    def where(self) -> str:
+        """``column C`` for a one-line pattern, ``line L, column C`` otherwise ("" if unknown)."""
+        if self.colno is None:
+            return ""
+        if self.pattern is not None and "\n" in self.pattern:
+            return f"line {self.lineno}, column {self.colno}"
+        return f"column {self.colno}"
 
     def caret(self) -> str:
-        """The pattern on one line and a caret under the offending column."""
+        """The offending line of the pattern and a caret under the offending column.
+
+        Tabs show as one space so that the caret lines up; a wide (East Asian full-width)
+        character takes two columns of the caret line."""
         if self.pattern is None or self.position is None:
             return ""
-        line = self.pattern.replace("\n", " ").replace("\t", " ")
-        return f"  {line}\n  {' ' * self.position}^"
+        line = self.pattern.split("\n")[self.lineno - 1].replace("\t", " ")
+        before = line[: self.colno - 1]
+        return f"  {line}\n  {' ' * _display_width(before)}^"
+
+
+def _display_width(text: str) -> int:
+    """Terminal columns of ``text``: two for wide and full-width characters."""
+    import unicodedata
+
+    return sum(2 if unicodedata.east_asian_width(ch) in "WF" else 1 for ch in text)
 
 
 class StateLimitError(PfuzzError):

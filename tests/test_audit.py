@@ -18,7 +18,7 @@ from pfuzz.audit.run import CATEGORY_ORDER, Settings, audit_alphabet, build_case
 from pfuzz.errors import EmptyLanguageError
 from pfuzz.audit.hostile import HOSTILE_CHARACTERS, HOSTILE_KINDS, case_flips, hostile_variants
 from pfuzz.audit.targets import PythonTarget, RegexTarget
-from pfuzz.nearmiss.witness import apply_edits
+from pfuzz.nearmiss.edits import apply_edits
 
 FIXTURES = str(Path(__file__).parent / "fixtures" / "validators")
 TICKET = r"[A-Z]{2}-[0-9]{4}"

@@ -8,7 +8,7 @@ import re
 from click.testing import CliRunner
 
 from pfuzz.cli import main
-from pfuzz.nearmiss.witness import Edit, apply_edits
+from pfuzz.nearmiss.edits import Edit, apply_edits
 
 PLATE = r"[A-Z]{2}[0-9]{4}"
 

@@ -12,7 +12,7 @@ from pfuzz.counting.tables import Counter
 from pfuzz.errors import EmptyLanguageError, PfuzzError
 from pfuzz.base.constants import EDIT_KINDS
 from pfuzz.nearmiss.rejects import kinds_of, near_miss_dfa, sample_rejects
-from pfuzz.nearmiss.witness import apply_edits
+from pfuzz.nearmiss.edits import apply_edits
 
 
 def counts(dfa, high):

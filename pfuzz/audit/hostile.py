@@ -22,7 +22,7 @@ from dataclasses import dataclass
 from typing import Callable, Iterable
 
 from pfuzz.base.charset import CharSet
-from pfuzz.nearmiss.witness import Edit
+from pfuzz.nearmiss.edits import Edit
 
 NO_BREAK_SPACE = "\u00a0"
 ZERO_WIDTH_SPACE = "\u200b"

@@ -43,7 +43,7 @@ class RandomSource:
     def below(self, n: int) -> int:
         """A uniform integer in [0, n), exact for any positive Python int."""
         if n <= 0:
-            raise ValueError("below() needs a positive bound")
+            raise ArgumentError(f"below() needs a positive bound, not {n}")
         if n == 1:
             return 0
         k = (n - 1).bit_length()
@@ -56,7 +56,7 @@ class RandomSource:
         """Index i with probability weights[i] / sum(weights), exactly (integer weights)."""
         total = sum(weights)
         if total <= 0:
-            raise ValueError("weighted_index() needs a positive total weight")
+            raise ArgumentError("weighted_index() needs weights with a positive total")
         target = self.below(total)
         for i, w in enumerate(weights):
             if target < w:

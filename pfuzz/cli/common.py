@@ -47,7 +47,7 @@ def report_errors(func):
         except PatternError as error:
             if (ctx.find_root().obj or {}).get("debug"):
                 raise
-            where = f" at column {error.position}" if error.position is not None else ""
+            where = f" at {error.where()}" if error.colno is not None else ""
             fail(f"bad pattern{where}: {error.message}", error.caret())
         except EmptyLanguageError as error:
             if (ctx.find_root().obj or {}).get("debug"):

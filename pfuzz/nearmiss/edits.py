@@ -18,6 +18,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from pfuzz.errors import ArgumentError
+
 
 @dataclass(frozen=True)
 class Edit:
@@ -31,7 +33,7 @@ class Edit:
     def apply(self, text: str) -> str:
         p = self.position
         if text[p:p + len(self.old)] != self.old:
-            raise ValueError(f"{self} does not apply to {text!r}")
+            raise ArgumentError(f"{self} does not apply to {text!r}")
         return text[:p] + self.new + text[p + len(self.old):]
 
     def __str__(self) -> str:

@@ -40,10 +40,10 @@ from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA
 from pfuzz.errors import ArgumentError, EmptyLanguageError
 from pfuzz.base.constants import EDIT_KINDS
 from pfuzz.nearmiss.neighbourhood import build, edge_characters
-from pfuzz.nearmiss.witness import Edit, Explanation, by_identity, corrector, explain
+from pfuzz.nearmiss.edits import Edit, Explanation
+from pfuzz.nearmiss.witness import by_identity, corrector, explain
 
-__all__ = ["EDIT_KINDS", "Edit", "Explanation", "Reject", "edge_characters", "explain",
-           "kinds_of", "length_range", "near_miss_dfa", "sample_rejects"]
+__all__ = ["Reject", "edge_characters", "explain", "kinds_of", "length_range", "near_miss_dfa", "sample_rejects"]
 
 
 # -- arguments -------------------------------------------------------------------------

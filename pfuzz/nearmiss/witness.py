@@ -46,7 +46,7 @@ from pfuzz.automata.dfa import DEAD, DFA, transitions
 from pfuzz.nearmiss.edits import Edit, Explanation, apply_edits
 from pfuzz.errors import EmptyLanguageError
 
-__all__ = ["Edit", "Explanation", "apply_edits", "corrector", "explain", "nearest"]
+__all__ = ["corrector", "explain", "nearest"]
 
 
 class _Corrector:

@@ -146,7 +146,8 @@ class Profile:
         for f in self.fields:
             if f.name == name:
                 return f
-        raise KeyError(f"no field named {name!r} in {self.path}")
+        known = ", ".join(f.name for f in self.fields)
+        raise ProfileError(f"no field named {name!r} (fields: {known})", path=str(self.path))
 
 
 @functools.lru_cache(maxsize=256)
@@ -268,7 +269,7 @@ class _Reader(TableReader):
             try:
                 field.compile_part(pattern)
             except PatternError as error:
-                column = f" at column {error.position}" if error.position is not None else ""
+                column = f" at {error.where()}" if error.colno is not None else ""
                 caret = error.caret() or f"  {pattern}"
                 self.fail(f"bad pattern {pattern!r}{column}: {error.message}", where, key, caret)
             except AlphabetError as error:

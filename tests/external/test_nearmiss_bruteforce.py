@@ -31,7 +31,7 @@ from helpers import strings_upto
 from pfuzz.counting.tables import Counter
 from pfuzz.base.constants import EDIT_KINDS
 from pfuzz.nearmiss.rejects import near_miss_dfa, sample_rejects
-from pfuzz.nearmiss.witness import apply_edits
+from pfuzz.nearmiss.edits import apply_edits
 
 INVERSE = {"delete": "insert", "insert": "delete", "replace": "replace", "swap": "swap"}
 
