@@ -104,13 +104,18 @@ class DFA:
         return hash(self.signature())
 
     # -- structure ------------------------------------------------------------
-    def live_states(self) -> set[int]:
-        """States from which some accepting state is reachable."""
-        preds: list[list[int]] = [[] for _ in self.table]
+    def predecessors(self) -> list[set[int]]:
+        """``predecessors()[t]``: the states with a move into ``t`` (the dead state has none)."""
+        preds: list[set[int]] = [set() for _ in self.table]
         for s, row in enumerate(self.table):
             for t in row:
                 if t >= 0:
-                    preds[t].append(s)
+                    preds[t].add(s)
+        return preds
+
+    def live_states(self) -> set[int]:
+        """States from which some accepting state is reachable."""
+        preds = self.predecessors()
         live = set(self.accepting)
         stack = list(live)
         while stack:

@@ -59,7 +59,7 @@ def simulation(dfa: DFA, written: "list[list[int]] | None" = None,
         below = simulation(dfa) if inner is None else inner
         for column in written:
             sim &= _matched_moves(column, n, below)
-    preds = _predecessors(dfa)
+    preds = dfa.predecessors()
     queue = deque(_successors_first(dfa))
     queued = [True] * n
     while queue:
@@ -104,16 +104,6 @@ def _matched_moves(column: list[int], n: int, below: np.ndarray) -> np.ndarray:
             matched[sources[below[t, targets]]] = True
             ok[q] &= matched
     return ok
-
-
-def _predecessors(dfa: DFA) -> list[set[int]]:
-    """preds[t]: the states with a move into t."""
-    preds: list[set[int]] = [set() for _ in range(dfa.n_states)]
-    for q, row in enumerate(dfa.table):
-        for t in row:
-            if t != DEAD:
-                preds[t].add(q)
-    return preds
 
 
 def _static_conditions(dfa: DFA, marks: list[int]) -> np.ndarray:
