@@ -362,17 +362,33 @@ def test_progress_is_reported_once_per_step(tmp_path):
     assert len(labels) == step_count(profile) and labels[-1] == "written"
 
 
-def test_corpus_folder_and_files_get_ordinary_permissions(tmp_path):
-    # the staging folder from mkdtemp is 0700; a QA handoff folder must not stay private
+@pytest.fixture
+def umask():
+    """Set the process umask for one test and put the old one back afterwards."""
+    import os
+    previous = os.umask(0o022)
+    os.umask(previous)
+    yield os.umask
+    os.umask(previous)
+
+
+@pytest.mark.parametrize("mask", [0o002, 0o022, 0o077])
+@pytest.mark.parametrize("replace", [False, True])
+def test_corpus_folder_and_files_get_ordinary_permissions(tmp_path, umask, mask, replace):
+    # POSIX open(2)/mkdir(2): a new file is 0666 and a new folder 0777, less the umask.
+    # mkdtemp's private 0700 must not survive, and no fixed mode may override the user's umask.
     import os
     import stat
 
-    from pfuzz.corpus.writer import write_corpus
-    from pfuzz.base.files import current_umask
-    from pfuzz.profile.loader import load_profile
-
     out = tmp_path / "corpus"
-    write_corpus(load_profile(profile_file(tmp_path)), out, seed=1)
-    mask = current_umask()
-    assert stat.S_IMODE(os.stat(out).st_mode) == 0o777 & ~mask
-    assert stat.S_IMODE(os.stat(out / "cases.csv").st_mode) == 0o666 & ~mask
+    profile = load_profile(profile_file(tmp_path))
+    if replace:
+        write_corpus(profile, out, seed=1)
+    umask(mask)
+    write_corpus(profile, out, seed=1, force=replace)
+    folders = [out] + [p for p in out.rglob("*") if p.is_dir()]
+    files = [p for p in out.rglob("*") if p.is_file()]
+    assert len(folders) > 1 and len(files) > 3
+    modes = {str(p.relative_to(tmp_path)): stat.S_IMODE(p.stat().st_mode) for p in folders + files}
+    assert modes == {str(p.relative_to(tmp_path)): 0o777 & ~mask for p in folders} | {
+        str(p.relative_to(tmp_path)): 0o666 & ~mask for p in files}

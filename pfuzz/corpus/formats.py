@@ -130,7 +130,6 @@ class Staging:
 
     def commit(self) -> None:
         """Move the finished directory into place (replacing the old one if allowed)."""
-        os.chmod(self.temp, 0o755)
         if not self.replace:
             os.rename(self.temp, self.target)
             self.temp = None
