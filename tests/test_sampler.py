@@ -7,9 +7,12 @@ in tests/external/test_counting_reference.py.
 
 from __future__ import annotations
 
+import re
 import warnings
+from fractions import Fraction
 
 import pytest
+from scipy.stats import chisquare
 
 import pfuzz
 from pfuzz.errors import ArgumentError, EmptyLanguageError, PfuzzWarning
@@ -119,10 +122,20 @@ def test_progress_is_reported_for_every_string():
 
 
 def test_length_weights_too_large_for_exact_integer_draws():
-    # 10^20 strings of length 20 exceed 2^62: the bulk path draws from rounded shares.
-    x = lang(r"[0-9]{1,20}")
-    lengths = [len(s) for s in x.sample(2000, lengths="proportional", seed=6, method="bulk")]
-    assert set(lengths) <= {17, 18, 19, 20} and lengths.count(20) > 1700
+    # 10^20 strings of length 20 exceed 2^62: the bulk path draws lengths from rounded shares.
+    # Reference (closed form): [0-9]{k} holds 10^k strings, so proportional sampling gives
+    # length k the share 10^k / (10 + 100 + ... + 10^20). Chi-squared goodness of fit
+    # (scipy.stats.chisquare) at a fixed seed, alpha = 0.001; lengths 1-17 share one bin so
+    # every bin expects at least 5 draws (common practice for the chi-squared approximation).
+    n, alpha = 20_000, 0.001
+    drawn = lang(r"[0-9]{1,20}").sample(n, lengths="proportional", seed=6, method="bulk")
+    assert all(re.fullmatch(r"[0-9]{1,20}", s) for s in drawn)    # Python's re
+    total = sum(10**k for k in range(1, 21))
+    bins = [range(1, 18), range(18, 19), range(19, 20), range(20, 21)]
+    expected = [n * float(Fraction(sum(10**k for k in b), total)) for b in bins]
+    observed = [sum(len(s) in b for s in drawn) for b in bins]
+    assert min(expected) >= 5 and sum(observed) == n
+    assert chisquare(observed, expected).pvalue > alpha, (observed, expected)
 
 
 @pytest.mark.parametrize("arguments", [
