@@ -21,7 +21,6 @@ from pfuzz.corpus.formats import read_csv
 from pfuzz.corpus.writer import write_corpus
 from pfuzz.profile.loader import load_profile
 from pfuzz.base.randomness import RandomSource
-from pfuzz.syntax.alphabet import resolve_alphabet
 
 DEMO = Path(__file__).resolve().parents[2] / "profiles" / "demo.toml"
 
@@ -51,6 +50,20 @@ alphabet = "[abc ]"
 valid = 20
 invalid = 20
 
+# Patterns that reach beyond the alphabet: only the alphabet keeps their strings in it.
+[[field]]
+name = "mark"
+pattern = '.{1,2}[^0-9]'
+alphabet = "[0-9x-z]"
+valid = 20
+invalid = 20
+
+[[field]]
+name = "any"
+pattern = '(?s).{1,3}'
+valid = 30
+invalid = 10
+
 [record]
 name = "pair"
 valid_rows = 6
@@ -58,16 +71,38 @@ invalid_rows = 6
 """
 
 
+def _not_surrogate(ch: str) -> bool:
+    return not "\ud800" <= ch <= "\udfff"
+
+
+#: The named alphabets as the README defines them: printable is U+0020-U+007E (the printable
+#: characters of ASCII, RFC 20), ascii U+0000-U+007F, latin1 U+0000-U+00FF (ISO/IEC 8859-1),
+#: bmp the Basic Multilingual Plane and unicode every code point, both without surrogates.
+PRESETS = {
+    "printable": lambda ch: " " <= ch <= "~",
+    "ascii": lambda ch: ch <= "\x7f",
+    "latin1": lambda ch: ch <= "\xff",
+    "bmp": lambda ch: ch <= "\uffff" and _not_surrogate(ch),
+    "unicode": _not_surrogate,
+}
+
+
+def in_alphabet(spec: str, ch: str) -> bool:
+    """A preset by the README's definition, or a class judged by Python's re."""
+    if spec.startswith("["):
+        return re.fullmatch(spec, ch) is not None and _not_surrogate(ch)
+    return PRESETS[spec](ch)
+
+
 def reference(field, text: str) -> bool:
     """The verdict of Python's re (source: the ``re`` module of the standard library)."""
     flags = field.flag_bits
-    alphabet = resolve_alphabet(field.alphabet)
     return (re.fullmatch(field.pattern, text, flags) is not None
             and all(re.fullmatch(p, text, flags) for p in field.require)
             and not any(re.fullmatch(p, text, flags) for p in field.forbid)
             and (field.min_length or 0) <= len(text)
             and (field.max_length is None or len(text) <= field.max_length)
-            and all(ch in alphabet for ch in text))
+            and all(in_alphabet(field.alphabet, ch) for ch in text))
 
 
 def apply_script(witness: str, edits: list[dict]) -> str:
