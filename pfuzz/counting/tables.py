@@ -143,6 +143,19 @@ class Counter:
             raise RankOutOfRangeError(f"index {index} out of range: length {length} has {size} strings")
         return "".join(chr(p) for _, _, p in self._descend(length, index))
 
+    def completions(self, state: int, length: int) -> int:
+        """``T[length][state]``: the strings of ``length`` that lead from ``state`` to acceptance."""
+        return self._table(length)[state] if length >= 0 else 0
+
+    def step(self, state: int, length: int, index: int) -> tuple[str, int, int]:
+        """Decode the first character of the completion of rank ``index`` among the
+        ``completions(state, length)`` ones: (character, next state, rank left below it)."""
+        below = self._table(length - 1)
+        pieces = self._pieces[state]
+        j = pieces.locate(index, below)
+        offset, index = divmod(index - pieces.before_weight(j, below), below[pieces.targets[j]])
+        return chr(pieces.los[j] + offset), pieces.targets[j], index
+
     def _descend(self, length: int, index: int) -> list[tuple[int, int, int]]:
         """The path (state, piece, code point) to the string of rank ``index``."""
         path, state = [], 0
