@@ -44,12 +44,34 @@ class PatternError(PfuzzError, ValueError):
         """The offending line of the pattern and a caret under the offending column.
 
         Tabs show as one space so that the caret lines up; a wide (East Asian full-width)
-        character takes two columns of the caret line."""
+        character takes two columns of the caret line. A long line is shown as a window of
+        ``CARET_CONTEXT`` characters each side of the column, cut with "..."."""
         if self.pattern is None or self.position is None:
             return ""
         line = self.pattern.split("\n")[self.lineno - 1].replace("\t", " ")
-        before = line[: self.colno - 1]
-        return f"  {line}\n  {' ' * _display_width(before)}^"
+        start = max(0, self.colno - 1 - CARET_CONTEXT)
+        shown = line[start: self.colno - 1 + CARET_CONTEXT]
+        before = line[start: self.colno - 1]
+        if start:
+            shown, before = "..." + shown, "..." + before
+        if len(line) > self.colno - 1 + CARET_CONTEXT:
+            shown += "..."
+        return f"  {shown}\n  {' ' * _display_width(before)}^"
+
+
+#: Characters of a long pattern line shown on each side of the caret.
+CARET_CONTEXT = 36
+#: Longest echo of user text (a pattern, a value) inside a one-line message.
+ECHO_LIMIT = 80
+
+
+def shorten(text: str, limit: int = ECHO_LIMIT) -> str:
+    """``text`` itself, or its head and tail around "..." when it is longer than ``limit``:
+    an error echoes what the user gave without repeating a 20 KB pattern."""
+    if len(text) <= limit:
+        return text
+    head = (limit - 3) * 2 // 3
+    return f"{text[:head]}...{text[len(text) - (limit - 3 - head):]}"
 
 
 def _display_width(text: str) -> int:
@@ -104,8 +126,38 @@ class TargetError(PfuzzError):
         self.detail = detail
 
 
-class CorpusExistsError(PfuzzError):
+class OutputError(PfuzzError):
+    """A path pfuzz will not write to: a symlink, a device or another file that is not a
+    regular file, a name with a NUL character, a folder it did not make.
+
+    ``template`` holds a ``{name}`` for each library parameter the advice names;
+    ``str()`` reads them in the library's words (``parameters``: ``out_dir``,
+    ``force=True``) and ``for_options`` in a command line's (``--out``, ``--force``).
+    ``values`` fill the other fields (the path itself).
+    """
+
+    def __init__(self, template: str, *, parameters: dict[str, str] | None = None, **values):
+        self.template, self.parameters, self.values = template, dict(parameters or {}), values
+        super().__init__(template.format(**self.parameters, **values))
+
+    def for_options(self, options: dict[str, str]) -> str:
+        """The message with ``options[name]`` in place of each parameter it knows."""
+        words = {name: options.get(name, word) for name, word in self.parameters.items()}
+        return self.template.format(**words, **self.values)
+
+
+class CorpusExistsError(OutputError):
     """The output folder exists and may not (or cannot safely) be replaced."""
+
+
+class ResourceLimitError(PfuzzError):
+    """A request would need more memory or work than a limit allows; the message names
+    the limit and how to lower the request."""
+
+
+class ScaleError(PfuzzError):
+    """Sharded work cannot run: Dask missing or unreachable, workers of another version,
+    or a state folder that belongs to another run."""
 
 
 class GraphvizError(PfuzzError):
