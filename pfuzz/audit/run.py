@@ -9,8 +9,11 @@ disagreement: a *wrong reject* (a valid string refused) or a *wrong accept*
 
 Cases, in the order they are made (a text made twice keeps its first category):
 
-1. the boundary suite of ``pfuzz.boundary.suite`` (shortest, longest, length
-   edges, range edges, transition coverage, exits), all of it;
+1. the boundary suite of ``pfuzz.boundary.suite`` over the audit alphabet (below),
+   with the hostile characters as probes (each tried at every position that
+   refuses it): shortest, longest, length edges, the edges of every range at
+   every state, one more / one fewer at every transition, exits, transition
+   coverage; its first ``boundary_limit`` cases (a note says what was cut);
 2. ``hostile``: the variants of ``pfuzz.audit.hostile`` (a trailing newline, tabs
    and CRs, spaces around the value, other scripts' digits, full-width
    letters, no-break and zero-width spaces) of a few valid witnesses;
@@ -52,6 +55,7 @@ from pfuzz.base import randomness
 from pfuzz.base.charset import CharSet
 from pfuzz.audit.comparison import Comparison, compare, lift
 from pfuzz.base.constants import EDIT_KINDS
+from pfuzz.boundary.suite import DEFAULT_LIMIT as DEFAULT_BOUNDARY_LIMIT
 from pfuzz.errors import EmptyLanguageError, PatternError, StateLimitError
 from pfuzz.audit.hostile import HOSTILE_CHARACTERS, Variant, case_flips, hostile_variants
 from pfuzz.language import Language
@@ -66,7 +70,7 @@ DEFAULT_REJECT_ALPHABET = "latin1"
 #: Valid strings that hostile variants and case flips are made from.
 WITNESSES = 8
 #: Report order of categories when their shortest failures are equally long.
-CATEGORY_ORDER = ("length-edge", "range-edge", "near-miss", "hostile", "case-flip",
+CATEGORY_ORDER = ("length-edge", "range-edge", "repetition", "near-miss", "hostile", "case-flip",
                   "shortest", "longest", "coverage", "exit", "valid")
 
 
@@ -103,6 +107,7 @@ class Settings:
     case_flip: bool = True
     min_length: int | None = None   #: bounds the sampled valid strings and rejects
     max_length: int | None = None   #: ... and the boundary suite's length scan
+    boundary_limit: int | None = DEFAULT_BOUNDARY_LIMIT   #: distinct boundary cases kept (None: all)
 
 
 @dataclass(frozen=True)
@@ -211,7 +216,10 @@ def build_cases(spec: Language, settings: Settings = Settings(),
     boundary = []
     if settings.boundary:
         progress("boundary suite")
-        boundary = [_boundary_case(wide, c) for c in spec.boundary_cases(settings.max_length)]
+        drawn = wide.boundary_cases(settings.max_length, limit=settings.boundary_limit,
+                                    probes=HOSTILE_CHARACTERS)
+        boundary = [_boundary_case(c) for c in drawn]
+        notes += [drawn.note()] if drawn.cut else []
     progress("valid strings")
     bounds = {"min_length": settings.min_length, "max_length": settings.max_length}
     valid = spec.sample(settings.valid, seed=rng, **bounds) if settings.valid else []
@@ -235,11 +243,10 @@ def _witnesses(candidates: list[str], spec: Language) -> list[str]:
     return chosen
 
 
-def _boundary_case(wide: Language, case) -> AuditCase:
-    if case.expected:
-        return AuditCase(case.text, True, case.category, "", case.reason)
-    why = wide.explain(case.text)
-    return AuditCase(case.text, False, case.category, "", case.reason, why.witness, why.edits)
+def _boundary_case(case) -> AuditCase:
+    """A boundary case as it is: an invalid one carries its one-edit witness already."""
+    return AuditCase(case.text, case.expected, case.category, case.kind, case.reason,
+                     case.witness, case.edits)
 
 
 def _variant_case(variant: Variant, category: str) -> AuditCase:
@@ -307,7 +314,7 @@ def run_audit(spec: Language, target, settings: Settings = Settings(), *,
     """
     cases, notes = build_cases(spec, settings, progress)
     progress("running the validator")
-    verdicts = target.run([c.text for c in cases])
+    verdicts = target.verdicts([c.text for c in cases])
     wide_alphabet = audit_alphabet(spec.alphabet, settings.reject_alphabet)
     report = AuditReport(spec_label or spec.pattern or "specification", target.label,
                          spec.alphabet_name, wide_alphabet, settings, cases, verdicts, notes=notes)

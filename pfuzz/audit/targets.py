@@ -1,180 +1,347 @@
 """The validators an audit runs: a Python function, a command, or a regular expression.
 
-Each target takes the list of case strings and returns one ``Verdict`` per
-string, in order.
+Every target answers in batches: ``verdicts(strings)`` gives one ``Verdict``
+per string, in order, and ``ask(strings)`` the booleans alone (the membership
+oracle an automata learner needs). Targets that run a process are context
+managers; ``close()`` ends the process and everything it started.
 
-- ``PythonTarget("module:function")`` imports the module from the current
-  directory (which is put first on ``sys.path``) and calls the function with
-  one string at a time; a truthy result accepts, an exception rejects and is
-  recorded with its type. No timeout: the function runs in this process.
-- ``CommandTarget("command args")`` runs the command once (split like a POSIX
-  shell; no shell features: wrap pipes in ``sh -c '...'``). It receives each
-  string as one JSON string literal per line on standard input (pure ASCII:
-  every non-ASCII character is a ``\\u`` escape) and answers one verdict per
-  line on standard output: ``1``/``0``, ``true``/``false`` or
-  ``accept``/``reject`` (any case, surrounding blanks ignored). The whole run
-  has one timeout; the command must exit with status 0. A crash, a hang or a
-  short or unreadable answer is a ``TargetError``, never a silent verdict.
+- ``PythonTarget("module:function")`` imports the module in a child
+  interpreter (``pfuzz.audit.worker``; the current directory is put first on
+  its ``sys.path``) and calls the function with one string at a time; a truthy
+  result accepts. Nothing the function does reaches pfuzz's own output or exit
+  status: its printing goes to its error output (kept for messages), and
+  ``sys.exit`` (at import or in a call), an import failure, a crash of the
+  interpreter or a round that takes longer than the timeout is a
+  ``TargetError`` naming the string it happened on. Exceptions: derived from
+  ``ValueError`` or named in ``reject_on``, one counts as a reject; any other
+  (``BaseException`` included) is recorded on its verdict as a finding of its
+  own. Cost of the child process, measured: about 30 ms to start (plus the
+  module's own import) and about 0.5 µs per string on top of the call itself,
+  since a whole round travels as one JSON line each way.
+- ``CallableTarget(function)``: the same rules in this process, for library
+  use (no timeout; output redirected while it runs; a ``KeyboardInterrupt``
+  propagates, since in-process it may be the user's Ctrl-C).
+- ``CommandTarget("command args")`` runs the command (split like a POSIX
+  shell; no shell features: wrap pipes in ``sh -c '...'``) in a session of its
+  own, under the round protocol below.
 - ``RegexTarget(pattern, mode)`` calls Python's ``re`` in the mode the user's
   code uses (``fullmatch``, ``match`` or ``search``) and also offers the exact
   language of that call, compiled by ``pfuzz.compile(..., mode=...)``, which
   keeps the meaning of anchors inside R (unlike the language L(R)·U*).
+
+The round protocol of a command: each string is one JSON string literal per
+line on standard input (pure ASCII: every non-ASCII character is a ``\\u``
+escape); the command answers one line per string: ``1``/``0``,
+``true``/``false`` or ``accept``/``reject`` (any case, blanks ignored).
+pfuzz keeps the command running, writes one round of lines, flushes, and reads
+exactly that many answers before it sends the next round. A command that gives
+no answer within ``ANSWER_WAIT`` seconds of a round being written (one that
+answers only at end of input, or whose output sits in a buffer; a quarter of
+the timeout if that is shorter) gets end of input for that round, and from then on is started once per round, given the
+round and end of input, and must exit with status 0. Each round must be
+answered within the timeout, or the command's whole process group is killed
+(``pfuzz.audit.process``); answer lines are at most ``LINE_LIMIT`` bytes,
+and a line more than asked for is an error. A crash, a hang, a short or
+unreadable answer is a ``TargetError``, never a silent verdict.
 """
 
 from __future__ import annotations
 
-import importlib
+import contextlib
+import io
 import json
 import os
 import re
 import shlex
-import signal
-import subprocess
 import sys
+import tempfile
+import time
 from dataclasses import dataclass
-from typing import Callable
+from pathlib import Path
+from typing import Callable, Sequence
 
+from pfuzz.audit import worker
+from pfuzz.audit.process import Process, describe_status
 from pfuzz.base.constants import CALL_MODES
 from pfuzz.errors import TargetError
 
-#: Seconds a command target may take for the whole run.
+__all__ = ["ACCEPT_WORDS", "ANSWER_WAIT", "DEFAULT_TIMEOUT", "LINE_LIMIT", "REJECT_WORDS",
+           "CallableTarget", "CommandTarget", "PythonTarget", "RegexTarget", "Target", "Verdict",
+           "parse_exception_names"]
+
+#: Seconds a validator may take to answer one round.
 DEFAULT_TIMEOUT = 60.0
+#: Seconds without any answer after which a command is taken to answer only at end of input.
+ANSWER_WAIT = 1.0
+#: Longest answer line a command may write (bytes).
+LINE_LIMIT = 1024
 ACCEPT_WORDS = ("1", "true", "accept")
 REJECT_WORDS = ("0", "false", "reject")
 
 
 @dataclass(frozen=True)
 class Verdict:
-    """What the validator said about one string; ``error`` names an exception it raised."""
+    """What the validator said about one string.
+
+    ``raised`` names the exception it raised (empty if none) and ``message``
+    its text; ``unexpected`` is True for an exception that is not a way of
+    saying "reject" (a finding of its own).
+    """
 
     accepted: bool
-    error: str = ""
+    raised: str = ""
+    message: str = ""
+    unexpected: bool = False
+
+    @property
+    def error(self) -> str:
+        """``Type: message`` of the exception raised, or the empty string."""
+        if not self.raised:
+            return ""
+        return f"{self.raised}: {self.message}" if self.message else self.raised
+
+
+class Target:
+    """The batch interface every validator offers."""
+
+    label = "validator"
+
+    def verdicts(self, texts: Sequence[str]) -> list[Verdict]:
+        raise NotImplementedError
+
+    def ask(self, texts: Sequence[str]) -> list[bool]:
+        """Membership answers alone: accepted or not (an exception is not an acceptance)."""
+        return [v.accepted for v in self.verdicts(texts)]
+
+    def close(self) -> None:
+        """End whatever runs for this target (nothing by default)."""
+
+    def __enter__(self):
+        return self
+
+    def __exit__(self, *exc) -> None:
+        self.close()
+
+
+def parse_exception_names(text: str | Sequence[str] | None) -> tuple[str, ...]:
+    """``"KeyError, pkg.Error"`` or a list of names as a tuple of names (empty entries dropped)."""
+    if not text:
+        return ()
+    names = text.split(",") if isinstance(text, str) else list(text)
+    return tuple(n.strip() for n in names if n.strip())
+
+
+def _timeout(seconds: float) -> float:
+    if not seconds > 0:
+        raise TargetError(f"the timeout must be positive, not {seconds}")
+    return float(seconds)
+
+
+def _quote(text: str) -> str:
+    shown = text if len(text) <= 60 else text[:59] + "\u2026"
+    return json.dumps(shown, ensure_ascii=False)
 
 
 # -- Python functions ---------------------------------------------------------------
 
-def load_function(spec: str, directory: str | None = None) -> Callable:
-    """Import ``module:function`` (dotted names allowed on both sides) from ``directory``."""
-    module_name, sep, attribute = spec.partition(":")
-    if not sep or not module_name or not attribute:
-        raise TargetError(f"--target must look like module:function, not {spec!r}")
-    directory = os.getcwd() if directory is None else directory
-    if directory not in sys.path:
-        sys.path.insert(0, directory)
-    try:
-        thing = importlib.import_module(module_name)
-    except ModuleNotFoundError as error:
-        raise TargetError(f"cannot import {module_name!r} from {directory}: {error}") from None
-    except Exception as error:  # the user's module failed while importing
-        raise TargetError(f"importing {module_name!r} failed: {type(error).__name__}: {error}") from None
-    for name in attribute.split("."):
-        if not hasattr(thing, name):
-            raise TargetError(f"{module_name!r} has no attribute {attribute!r}")
-        thing = getattr(thing, name)
-    if not callable(thing):
-        raise TargetError(f"{spec} is not callable")
-    return thing
+class PythonTarget(Target):
+    """``module:function`` called in a child interpreter (see the module docstring)."""
+
+    def __init__(self, spec: str, directory: str | None = None, *,
+                 timeout: float = DEFAULT_TIMEOUT, reject_on: Sequence[str] = ()):
+        self.label, self.timeout = spec, _timeout(timeout)
+        self._slot = tempfile.TemporaryFile()
+        self._slot.truncate(8)
+        config = {"target": spec, "directory": str(Path(directory or ".").resolve()),
+                  "reject_on": list(parse_exception_names(reject_on)),
+                  "slot": self._slot.fileno()}
+        argv = [sys.executable, "-c", Path(worker.__file__).read_text(encoding="utf-8"),
+                json.dumps(config)]
+        self._process = Process(argv, f"the validator {spec}", pass_fds=(self._slot.fileno(),))
+        self._texts: Sequence[str] = ()
+        answer = self._exchange(b"", "importing it")
+        if "failed" in answer:
+            self.close()
+            raise TargetError(answer["failed"], self._process.error_tail())
+
+    def verdicts(self, texts: Sequence[str]) -> list[Verdict]:
+        if not texts:
+            return []
+        self._texts = texts
+        data = (json.dumps(list(texts), ensure_ascii=True) + "\n").encode("ascii")
+        answer = self._exchange(data, "checking a round of strings")
+        if "exit" in answer:
+            index, code = answer["exit"]
+            self.close()
+            raise TargetError(f"the validator {self.label} called sys.exit({code}) on "
+                              f"{_quote(texts[index])}; a validator must return or raise")
+        out = [Verdict(c == "1") for c in answer["verdicts"]]
+        for index, kind, message, rejects in answer["raised"]:
+            out[index] = Verdict(False, kind, message, not rejects)
+        return out
+
+    def _exchange(self, data: bytes, doing: str) -> dict:
+        n = max(1, len(self._texts) if data else 1)
+        deadline = time.monotonic() + self.timeout
+        got = self._process.exchange(data, 1, deadline, 4096 + 4096 * n)
+        if got.ended == "answered":
+            return json.loads(got.lines[0])
+        where = self._where(doing)
+        if got.ended == "timeout":
+            self.close()
+            raise TargetError(f"the validator {self.label} did not answer within {self.timeout:g} s "
+                              f"{where} (a hang?); use --timeout to allow more",
+                              self._process.error_tail())
+        status = self._process.wait(deadline)
+        self.close()
+        raise TargetError(f"the validator's process ended ({describe_status(status)}) {where}",
+                          self._process.error_tail())
+
+    def _where(self, doing: str) -> str:
+        """Which string the child was checking (read from the shared slot), or what it did."""
+        index = int.from_bytes(os.pread(self._slot.fileno(), 8, 0), sys.byteorder, signed=True) - 1
+        if 0 <= index < len(self._texts):
+            return f"while checking {_quote(self._texts[index])}"
+        return f"while {doing}"
+
+    def close(self) -> None:
+        self._process.close()
+        if not self._slot.closed:
+            self._slot.close()
 
 
-class PythonTarget:
-    """A Python function called with one string; truthy accepts, an exception rejects."""
+class CallableTarget(Target):
+    """A Python callable called in this process, under the rules of ``PythonTarget``."""
 
-    def __init__(self, spec: str, directory: str | None = None):
-        self.label = spec
-        self.function = load_function(spec, directory)
-
-    def run(self, texts: list[str]) -> list[Verdict]:
-        return [self.call(text) for text in texts]
-
-    def call(self, text: str) -> Verdict:
+    def __init__(self, function: Callable[[str], object], label: str | None = None, *,
+                 reject_on: Sequence[str | type] = ()):
+        self.function = function
+        self.label = label or getattr(function, "__qualname__", repr(function))
         try:
-            return Verdict(bool(self.function(text)))
-        except Exception as error:  # the validator's own failure is a verdict, reported with its type
-            return Verdict(False, f"{type(error).__name__}: {error}")
+            self.reject_on = tuple(n if isinstance(n, type) else worker.resolve_exception(n)
+                                   for n in reject_on)
+        except worker.Refused as error:
+            raise TargetError(str(error)) from None
+
+    def verdicts(self, texts: Sequence[str]) -> list[Verdict]:
+        out = []
+        for text in texts:
+            sink = io.StringIO()  # a fresh one: the function may have closed the last
+            with contextlib.redirect_stdout(sink), contextlib.redirect_stderr(sink):
+                try:
+                    answer = worker.call(self.function, text, self.reject_on,
+                                         (SystemExit, KeyboardInterrupt))
+                except SystemExit as error:
+                    raise TargetError(f"the validator {self.label} called sys.exit({error.code!r}) "
+                                      f"on {_quote(text)}; a validator must return or raise") from None
+            if answer is True or answer is False:
+                out.append(Verdict(answer))
+            else:
+                kind, message, rejects = answer
+                out.append(Verdict(False, kind, message, not rejects))
+        return out
 
 
 # -- commands -----------------------------------------------------------------------
 
-class CommandTarget:
-    """A command that reads JSON string literals, one per line, and answers one verdict per line."""
+class CommandTarget(Target):
+    """A command under the round protocol (module docstring)."""
 
-    def __init__(self, command: str, timeout: float = DEFAULT_TIMEOUT):
+    def __init__(self, command: str, timeout: float = DEFAULT_TIMEOUT, *,
+                 answer_wait: float = ANSWER_WAIT):
         try:
             self.argv = shlex.split(command)
         except ValueError as error:
             raise TargetError(f"cannot split --cmd {command!r}: {error}") from None
         if not self.argv:
             raise TargetError("--cmd is empty")
-        if timeout <= 0:
-            raise TargetError(f"the timeout must be positive, not {timeout}")
-        self.label, self.timeout = command, timeout
+        self.label, self.timeout = command, _timeout(timeout)
+        self.answer_wait = min(answer_wait, self.timeout / 4)
+        self.once_per_round = False   #: set when the command answers only at end of input
+        self._process: Process | None = None
 
-    def run(self, texts: list[str]) -> list[Verdict]:
-        payload = "".join(json.dumps(text) + "\n" for text in texts)
-        code, out, err = self._execute(payload, len(texts))
-        lines = out.splitlines()
-        if code != 0:
-            raise TargetError(f"the command crashed: {_status(code)} after answering "
-                              f"{len(lines)} of {len(texts)} strings", _tail(err))
-        if len(lines) != len(texts):
-            what = "a short answer" if len(lines) < len(texts) else "too many answers"
-            raise TargetError(f"{what}: the command answered {len(lines)} lines for "
-                              f"{len(texts)} strings", _tail(err))
+    def verdicts(self, texts: Sequence[str]) -> list[Verdict]:
+        if not texts:
+            return []
+        data = "".join(json.dumps(t) + "\n" for t in texts).encode("ascii")
+        deadline = time.monotonic() + self.timeout
+        if self.once_per_round:
+            lines = self._once(data, len(texts), deadline)
+        else:
+            lines = self._lines(data, len(texts), deadline)
         return [_verdict(line, i) for i, line in enumerate(lines, 1)]
 
-    def _execute(self, payload: str, count: int) -> tuple[int, str, str]:
-        try:
-            process = subprocess.Popen(self.argv, stdin=subprocess.PIPE, stdout=subprocess.PIPE,
-                                       stderr=subprocess.PIPE, start_new_session=True)
-        except OSError as error:
-            raise TargetError(f"cannot run {self.argv[0]!r}: {error.strerror}") from None
-        try:
-            out, err = process.communicate(payload.encode("ascii"), timeout=self.timeout)
-        except subprocess.TimeoutExpired:
-            _kill(process)
-            out, err = process.communicate()
-            answered = len(out.decode("utf-8", "replace").splitlines())
-            raise TargetError(f"the command did not finish within {self.timeout:g} s (a hang?); "
-                              f"it had answered {answered} of {count} strings; "
-                              "use --timeout to allow more", _tail(err.decode("utf-8", "replace")))
-        return process.returncode, out.decode("utf-8", "replace"), err.decode("utf-8", "replace")
+    def _start(self) -> Process:
+        return Process(self.argv, "the command")
 
+    def _lines(self, data: bytes, n: int, deadline: float) -> list[bytes]:
+        """A round to the running command; on silence, end of input and once per round from then on."""
+        if self._process is None:
+            self._process = self._start()
+        process = self._process
+        if process.surplus():
+            self._fail(process, f"too many answers: the command wrote lines no string asked for")
+        got = process.exchange(data, n, deadline, LINE_LIMIT, stall=self.answer_wait)
+        if got.ended == "answered":
+            if process.surplus():
+                self._fail(process, f"too many answers: the command answered more than {n:,} "
+                                    f"lines for {n:,} strings")
+            return got.lines
+        self._process = None
+        if got.ended == "stalled":
+            self.once_per_round = True
+            rest = process.exchange(b"", n - len(got.lines), deadline, LINE_LIMIT,
+                                    end_input=True, until_end=True)
+            return self._finish(process, got.lines + rest.lines, rest.ended, n, deadline)
+        return self._finish(process, got.lines, got.ended, n, deadline)
 
-def _kill(process: subprocess.Popen) -> None:
-    """Kill the command and anything it started (it leads its own process group)."""
-    try:
-        os.killpg(process.pid, signal.SIGKILL)
-    except (ProcessLookupError, PermissionError):
+    def _once(self, data: bytes, n: int, deadline: float) -> list[bytes]:
+        process = self._start()
+        got = process.exchange(data, n, deadline, LINE_LIMIT, end_input=True, until_end=True)
+        return self._finish(process, got.lines, got.ended, n, deadline)
+
+    def _finish(self, process: Process, lines: list[bytes], ended: str, n: int,
+                deadline: float) -> list[bytes]:
+        """Once the output ended (or time ran out): the exit status and the count decide."""
+        status = process.wait(deadline) if ended != "timeout" else None
         process.kill()
+        if status is None:
+            raise TargetError(f"the command did not finish within {self.timeout:g} s (a hang?); "
+                              f"it had answered {len(lines):,} of {n:,} strings; "
+                              "use --timeout to allow more", process.error_tail())
+        if status != 0:
+            raise TargetError(f"the command crashed: {describe_status(status)} after answering "
+                              f"{len(lines):,} of {n:,} strings", process.error_tail())
+        if len(lines) != n:
+            raise TargetError(f"a short answer: the command answered {len(lines):,} lines for "
+                              f"{n:,} strings", process.error_tail())
+        return lines
+
+    def _fail(self, process: Process, message: str):
+        self._process = None
+        process.kill()
+        raise TargetError(message, process.error_tail())
+
+    def close(self) -> None:
+        if self._process is not None:
+            self._process.close()
+            self._process = None
 
 
-def _status(code: int) -> str:
-    if code < 0:
-        try:
-            return f"killed by signal {signal.Signals(-code).name}"
-        except ValueError:
-            return f"killed by signal {-code}"
-    return f"exit status {code}"
-
-
-def _tail(text: str, lines: int = 5) -> str:
-    kept = text.strip().splitlines()[-lines:]
-    return "\n".join(f"  | {line}" for line in kept)
-
-
-def _verdict(line: str, number: int) -> Verdict:
-    word = line.strip().lower()
+def _verdict(line: bytes, number: int) -> Verdict:
+    text = line.decode("utf-8", "replace").strip()
+    word = text.lower()
     if word in ACCEPT_WORDS:
         return Verdict(True)
     if word in REJECT_WORDS:
         return Verdict(False)
-    raise TargetError(f"line {number} of the answer is {line.strip()[:40]!r}; expected "
+    raise TargetError(f"line {number} of the answer is {text[:40]!r}; expected "
                       "1/0, true/false or accept/reject")
 
 
 # -- regular expressions --------------------------------------------------------------
 
-class RegexTarget:
+class RegexTarget(Target):
     """A Python ``re`` pattern called as ``re.<mode>(pattern, text)``."""
 
     def __init__(self, pattern: str, mode: str = "fullmatch"):
@@ -188,7 +355,7 @@ class RegexTarget:
         self.label = f"re.{mode}({pattern!r})"
         self._call = getattr(compiled, mode)
 
-    def run(self, texts: list[str]) -> list[Verdict]:
+    def verdicts(self, texts: Sequence[str]) -> list[Verdict]:
         return [Verdict(self._call(text) is not None) for text in texts]
 
     def language(self, alphabet):
