@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import time
-
 import pytest
 
 import pfuzz
@@ -110,16 +108,13 @@ def password_rule(classes):
 
 def test_password_rule_equals_the_intersection_of_its_parts():
     classes = [cls("0", "9"), cls("a", "z"), cls("A", "Z"), Chars(CharSet.from_chars("!#$%&*"))]
-    start = time.perf_counter()
     rule = compiled(password_rule(classes), PRINTABLE)
-    elapsed = time.perf_counter() - start
     expected = compiled(Repeat(Chars(NO_NEWLINE), 8, 64), PRINTABLE)
     for c in classes:
         expected = algebra.intersection(expected, compiled(seq(DOT_STAR, c, DOT_STAR), PRINTABLE))
     assert algebra.distinguish(rule, expected) is None
     # Four "seen a class" bits and lengths 0..64 (then 65 = "too long" collapses to dead).
     assert rule.n_states <= 16 * 65
-    assert elapsed < 2.0
 
 
 def test_wide_classes_cost_few_symbol_classes():
@@ -137,26 +132,15 @@ def test_the_state_cap_stops_determinisation():
 
 def test_the_state_cap_bounds_the_expanded_nfa():
     tree = Repeat(Repeat(cls("a"), 1000, 1000), 1000, 1000)
-    start = time.perf_counter()
     with pytest.raises(StateLimitError):
         compiled(tree, "a", cap=10_000)
-    assert time.perf_counter() - start < 1.0
 
 
-def test_bounded_repeat_grows_linearly():
-    # [a-z0-9]{1,n} has n + 1 states; four times n should cost about four times as much
-    # (CPU time, best of three, so that other processes disturb it less).
+def test_bounded_repeat_has_one_state_per_position():
+    # [a-z0-9]{1,n} has n + 1 states (its cost is measured by python -m pfuzz.benchmarks)
     chars = Chars(CharSet.of([(0x61, 0x7A), (0x30, 0x39)]))
-    timings = []
     for n in (256, 1024):
-        best = float("inf")
-        for _ in range(3):
-            start = time.process_time()
-            dfa = compiled(Repeat(chars, 1, n), PRINTABLE)
-            best = min(best, time.process_time() - start)
-        timings.append(best)
-        assert dfa.n_states == n + 1
-    assert timings[1] < 10 * timings[0] + 0.02
+        assert compiled(Repeat(chars, 1, n), PRINTABLE).n_states == n + 1
 
 
 # -- through the parser and the Language façade (values derived by hand) -----------------
