@@ -176,9 +176,10 @@ class Language:
                               progress=progress)
 
     # -- boundary suites and back-translation ---------------------------------------------
-    def boundary_cases(self, max_length: int | None = None):
+    def boundary_cases(self, max_length: int | None = None, **options):
+        """The boundary suite (``pfuzz.boundary.suite``; options ``limit``, ``probes``)."""
         from pfuzz.boundary.suite import suite
-        return suite(self.dfa, max_length=max_length)
+        return suite(self.dfa, max_length=max_length, **options)
 
     def to_pattern(self, limit: int | None = None) -> str | None:
         """A Python ``re`` pattern for this language (state elimination), or None if too large."""

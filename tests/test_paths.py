@@ -82,3 +82,32 @@ def test_unbounded_lengths_repeat_with_a_period():
     assert lengths.period is not None and len(lengths.valid) <= 4
     assert [lengths.is_valid(n) for n in range(200)] == [n % 2 == 0 for n in range(200)]
     assert lengths.string_of_length(10) == "ab" * 5
+
+
+def test_allowed_characters_are_those_that_keep_a_string_live(case):
+    dfa, valid = case
+    guide = Guide(dfa)
+    valid_set = set(valid)
+    for state in guide.reachable:
+        prefix = guide.prefix(state)
+        # reference: some valid string (up to length 6) continues prefix + ch
+        expected = {ch for ch in LETTERS if any(s.startswith(prefix + ch) for s in valid_set)}
+        assert set(guide.allowed(state).chars()) == expected
+
+
+def test_breadth_first_order_is_by_shortlex_least_prefix(case):
+    dfa, _ = case
+    guide = Guide(dfa)
+    prefixes = [guide.prefix(s) for s in guide.reachable]
+    assert prefixes == sorted(prefixes, key=lambda p: (len(p), p))
+    assert guide.reachable[0] == 0 and len(set(guide.reachable)) == len(guide.reachable)
+
+
+def test_longest_within_bound_against_brute_force(case):
+    dfa, valid = case
+    for bound in (0, 2, 4, None):
+        lengths = Lengths(Guide(dfa), bound)
+        reference = max((len(s) for s in valid if bound is None or len(s) <= bound), default=None)
+        if reference is not None and reference < lengths.min:
+            reference = None
+        assert lengths.longest_within_bound() == reference, bound

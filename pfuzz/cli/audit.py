@@ -8,8 +8,8 @@ from pathlib import Path
 
 import click
 
-from pfuzz.audit.run import (DEFAULT_REJECT_ALPHABET, DEFAULT_REJECTS, DEFAULT_VALID, EDIT_KINDS,
-                     AuditReport, Settings, run_audit, stages)
+from pfuzz.audit.run import (DEFAULT_BOUNDARY_LIMIT, DEFAULT_REJECT_ALPHABET, DEFAULT_REJECTS,
+                     DEFAULT_VALID, EDIT_KINDS, AuditReport, Settings, run_audit, stages)
 from pfuzz.errors import TargetError
 from pfuzz.base.constants import CALL_MODES
 from pfuzz.audit.targets import DEFAULT_TIMEOUT, CommandTarget, PythonTarget, RegexTarget
@@ -49,6 +49,9 @@ EXACT_ROWS = 6
 @click.option("--reject-alphabet", default=DEFAULT_REJECT_ALPHABET, show_default=True,
               help="Extra characters rejects are drawn over (besides --alphabet and the hostile ones).")
 @click.option("--no-boundary", is_flag=True, help="Leave out the boundary suite.")
+@click.option("--boundary-limit", type=click.IntRange(min=0), default=None,
+              help="Boundary cases kept (default: the profile field's boundary_limit, "
+                   f"else {DEFAULT_BOUNDARY_LIMIT:,}).")
 @click.option("--no-hostile", is_flag=True, help="Leave out the hostile near-misses.")
 @click.option("--no-case-flip", is_flag=True, help="Leave out the case flips.")
 @click.option("--timeout", type=click.FloatRange(min=0, min_open=True), default=DEFAULT_TIMEOUT,
@@ -61,7 +64,7 @@ EXACT_ROWS = 6
 @report_errors
 def audit(profile, pattern, pattern_file, field, python_target, command, regex, mode, alphabet,
           flags, state_cap, min_length, max_length, valid, rejects, distance, reject_alphabet,
-          no_boundary, no_hostile, no_case_flip, timeout, seed, show, fmt, out):
+          no_boundary, boundary_limit, no_hostile, no_case_flip, timeout, seed, show, fmt, out):
     """Find the strings a validator gets wrong, against a PROFILE field or a --pattern.
 
     Cases: the whole boundary suite, hostile near-misses (a trailing newline,
@@ -78,13 +81,14 @@ def audit(profile, pattern, pattern_file, field, python_target, command, regex, 
       pfuzz audit --pattern '[0-9]{4}' --regex '\\d{4}$' --mode match
       pfuzz audit profiles/iso-date.toml --cmd 'node check-date.js'
     """
-    spec, label, field_distance, kinds = _specification(profile, pattern, pattern_file, field,
-                                                       alphabet, flags, state_cap)
+    spec, label, field_distance, kinds, field_limit = _specification(
+        profile, pattern, pattern_file, field, alphabet, flags, state_cap)
     settings = Settings(valid=valid, rejects=rejects, seed=seed,
                         distance=distance or field_distance, kinds=kinds,
                         reject_alphabet=reject_alphabet, boundary=not no_boundary,
                         hostile=not no_hostile, case_flip=not no_case_flip,
-                        min_length=min_length, max_length=max_length)
+                        min_length=min_length, max_length=max_length,
+                        boundary_limit=field_limit if boundary_limit is None else boundary_limit)
     target = _target(python_target, command, regex, mode, timeout)
     try:
         report = _run_with_progress(spec, target, settings, label)
@@ -116,7 +120,8 @@ def _run_with_progress(spec, target, settings, label) -> AuditReport:
 
 
 def _specification(profile, pattern, pattern_file, field, alphabet, flags, state_cap):
-    """(language, label, distance, edit kinds) from exactly one of PROFILE, --pattern, --pattern-file."""
+    """(language, label, distance, edit kinds, boundary limit) from exactly one of PROFILE,
+    --pattern, --pattern-file."""
     given = [x for x in (profile, pattern, pattern_file) if x is not None]
     if len(given) != 1:
         fail("give the specification once: a PROFILE, --pattern P or --pattern-file FILE")
@@ -125,7 +130,8 @@ def _specification(profile, pattern, pattern_file, field, alphabet, flags, state
             fail("--field applies to a PROFILE, not to --pattern")
         if pattern_file is not None:
             pattern = read_pattern_file(pattern_file)
-        return compile_language(pattern, alphabet, flags, state_cap), pattern, 1, EDIT_KINDS
+        return (compile_language(pattern, alphabet, flags, state_cap), pattern, 1, EDIT_KINDS,
+                DEFAULT_BOUNDARY_LIMIT)
     ctx = click.get_current_context()
     for name in ("alphabet", "ignore_case"):
         if ctx.get_parameter_source(name) is not click.core.ParameterSource.DEFAULT:
@@ -134,7 +140,8 @@ def _specification(profile, pattern, pattern_file, field, alphabet, flags, state
 
     loaded = load_profile(profile)
     chosen = _field(loaded, field, profile)
-    return chosen.language(), f"{profile} field {chosen.name}", chosen.distance, chosen.edits
+    return (chosen.language(), f"{profile} field {chosen.name}", chosen.distance, chosen.edits,
+            chosen.boundary_limit)
 
 
 def _field(loaded, name, path):
@@ -185,7 +192,8 @@ def report_dict(report: AuditReport) -> dict:
         "settings": {"seed": s.seed, "valid": s.valid, "rejects": s.rejects, "distance": s.distance,
                      "kinds": list(s.kinds), "reject_alphabet": s.reject_alphabet,
                      "boundary": s.boundary, "hostile": s.hostile, "case_flip": s.case_flip,
-                     "min_length": s.min_length, "max_length": s.max_length},
+                     "min_length": s.min_length, "max_length": s.max_length,
+                     "boundary_limit": s.boundary_limit},
         "summary": report.summary(),
         "findings": [finding_dict(f) for f in report.findings],
         "exact": comparison_dict(report.exact) if report.exact is not None else None,

@@ -7,6 +7,7 @@ from pathlib import Path
 
 import click
 
+from pfuzz.boundary.suite import DEFAULT_LIMIT as DEFAULT_BOUNDARY_LIMIT
 from pfuzz.corpus.writer import step_count, write_corpus
 from pfuzz.errors import ProfileError
 from pfuzz.profile.loader import load_profile
@@ -20,9 +21,12 @@ from .common import fail, out_option, report_errors, seed_option
 @seed_option
 @click.option("--force", is_flag=True,
               help="Replace OUT if it holds an earlier corpus (or is empty).")
+@click.option("--boundary-limit", type=click.IntRange(min=0), default=None,
+              help="Boundary cases kept per field (default: each field's boundary_limit key, "
+                   f"else {DEFAULT_BOUNDARY_LIMIT:,}).")
 @click.pass_context
 @report_errors
-def corpus(ctx, profile_path, out, seed, force):
+def corpus(ctx, profile_path, out, seed, force, boundary_limit):
     """Write valid strings, near-miss rejects and boundary cases for every field of PROFILE.
 
     PROFILE is a TOML file describing fields (pattern, require, forbid,
@@ -47,17 +51,17 @@ def corpus(ctx, profile_path, out, seed, force):
         fail(str(error), error.detail)
     chosen = seed if ctx.get_parameter_source("seed") is not click.core.ParameterSource.DEFAULT \
         else None
-    summary = _run(profile, out, chosen, force)
+    summary = _run(profile, out, chosen, force, boundary_limit)
     _print_summary(summary)
 
 
-def _run(profile, out: Path, seed, force: bool):
+def _run(profile, out: Path, seed, force: bool, boundary_limit=None):
     steps = step_count(profile)
     if not sys.stderr.isatty():
-        return write_corpus(profile, out, seed, force=force)
+        return write_corpus(profile, out, seed, force=force, boundary_limit=boundary_limit)
     with click.progressbar(length=steps, label="pfuzz corpus", file=sys.stderr,
                            item_show_func=lambda label: label) as bar:
-        return write_corpus(profile, out, seed, force=force,
+        return write_corpus(profile, out, seed, force=force, boundary_limit=boundary_limit,
                             progress=lambda label: bar.update(1, label))
 
 
@@ -71,6 +75,9 @@ def _print_summary(summary) -> None:
     for name, counts in summary.fields.items():
         say(f"  {name:<{width}}  {counts['valid']:>7,}  {counts['rejects']:>7,}  "
             f"{counts['boundary']:>8,}")
+    for name, counts in summary.fields.items():
+        if counts.get("boundary_cut"):
+            say(f"  note: {name}: {counts['boundary_note']} (--boundary-limit N keeps more)")
     if summary.record:
         rec = summary.record
         say(f"  record {rec['name']}: {rec['valid_rows']:,} valid rows, "

@@ -118,14 +118,15 @@ def step_count(profile: Profile) -> int:
 
 
 def write_corpus(profile: "Profile | str | Path", out_dir: "str | Path", seed: int | None = None,
-                 force: bool = False, progress: Callable[[str], None] | None = None
-                 ) -> CorpusSummary:
+                 force: bool = False, progress: Callable[[str], None] | None = None,
+                 boundary_limit: int | None = None) -> CorpusSummary:
     """Write the corpus of ``profile`` to ``out_dir`` (see the module docstring).
 
     ``seed`` None means the profile's ``seed`` key, else 0. An existing
     ``out_dir`` raises ``CorpusExistsError`` unless ``force`` (and then only a
     previous corpus or an empty directory is replaced). ``progress(label)`` is
-    called once per step (``step_count``).
+    called once per step (``step_count``). ``boundary_limit`` None means each
+    field's ``boundary_limit`` key (the cases its boundary suite keeps).
     """
     if not isinstance(profile, Profile):
         profile = load_profile(profile)
@@ -139,7 +140,7 @@ def write_corpus(profile: "Profile | str | Path", out_dir: "str | Path", seed: i
             writer = _Writer(staging, profile, seed, cases_handle)
             plans = {}
             for field in profile.fields:
-                made = _field_cases(field, seeds[field.name], tick)
+                made = _field_cases(field, seeds[field.name], tick, boundary_limit)
                 writer.add_field(made)
                 plans[field.name] = made.plan()
                 del made                    # its strings are written: let them go
@@ -170,7 +171,7 @@ def _child_seeds(profile: Profile, seed: int) -> dict:
 
 # -- per field -------------------------------------------------------------------
 
-def _field_cases(field: Field, seeds: tuple[int, int], tick) -> FieldCases:
+def _field_cases(field: Field, seeds: tuple[int, int], tick, boundary_limit=None) -> FieldCases:
     lang = field.language()
     if lang.is_empty():
         raise ProfileError("no string satisfies the pattern with its require, forbid and "
@@ -185,7 +186,8 @@ def _field_cases(field: Field, seeds: tuple[int, int], tick) -> FieldCases:
     near = lang.near_misses(field.distance, list(field.edits))
     rejects = [] if near.is_empty() else _rejects(lang, field, high + field.distance, seeds[1])
     tick(f"{field.name}: rejects")
-    boundary = lang.boundary_cases(max_length=None if finite else high)
+    limit = field.boundary_limit if boundary_limit is None else boundary_limit
+    boundary = lang.boundary_cases(max_length=None if finite else high, limit=limit)
     tick(f"{field.name}: boundary")
     return FieldCases(field, (low, high), finite, counts, valid, mode, rejects, boundary,
                       has_near_misses=not near.is_empty())
@@ -250,8 +252,9 @@ def _boundary_items(made: FieldCases, path: str):
     for i, c in zip(case_ids(f"{name}:boundary", len(made.boundary)), made.boundary):
         expected = ACCEPT if c.expected else REJECT
         yield ({"id": i, "text": c.text, "expected": expected, "category": c.category,
-                "reason": c.reason},
-               (i, name, c.text, expected, c.category, c.reason, "", "", path))
+                "kind": c.kind, "reason": c.reason},
+               (i, name, c.text, expected, c.category, c.reason, c.witness or "",
+                "; ".join(edit_list(c)), path))
 
 
 class _Writer:
@@ -274,7 +277,8 @@ class _Writer:
                     self.cases.writerow(case)
                     self.summary.cases += 1
         self.summary.fields[made.field.name] = {
-            "valid": len(made.valid), "rejects": len(made.rejects), "boundary": len(made.boundary)}
+            "valid": len(made.valid), "rejects": len(made.rejects), "boundary": len(made.boundary),
+            "boundary_cut": made.boundary.cut, "boundary_note": made.boundary.note()}
         self.field_facts[made.field.name] = _field_manifest(made)
 
     def add_record(self, tables: RecordTables) -> None:
@@ -324,7 +328,8 @@ def _field_manifest(m: FieldCases) -> dict:
         "counts_by_length": {str(n): c for n, c in sorted(m.counts.items())},
         "asked": {"valid": f.valid, "rejects": f.invalid},
         "made": {"valid": len(m.valid), "valid_mode": m.valid_mode, "rejects": len(m.rejects),
-                 "boundary": len(m.boundary)},
+                 "boundary": len(m.boundary), "boundary_limit": m.boundary.limit,
+                 "boundary_cut": dict(m.boundary.cut_by_category)},
     }
 
 

@@ -37,6 +37,7 @@ from pfuzz.automata.dfa import explore
 from pfuzz.automata.minimise import minimise
 from pfuzz.errors import PatternError, ProfileError, StateLimitError, AlphabetError
 from pfuzz.base.constants import EDIT_KINDS
+from pfuzz.boundary.suite import DEFAULT_LIMIT as DEFAULT_BOUNDARY_LIMIT
 from pfuzz.profile.tomlcheck import TableReader, hint
 
 DEFAULT_VALID = 100          #: valid strings per field
@@ -54,7 +55,8 @@ RESERVED_COLUMNS = ("row_id", "bad_field", "reason", "witness", "edits")
 TOP_KEYS = ("profile", "field", "record")
 PROFILE_KEYS = ("title", "about", "seed")
 FIELD_KEYS = ("name", "pattern", "about", "source", "alphabet", "flags", "min_length",
-              "max_length", "require", "forbid", "valid", "invalid", "distance", "edits")
+              "max_length", "require", "forbid", "valid", "invalid", "distance", "edits",
+              "boundary_limit")
 RECORD_KEYS = ("name", "columns", "valid_rows", "invalid_rows", "context")
 CONTEXT_KEYS = ("column", "provider", "locale")
 
@@ -77,6 +79,7 @@ class Field:
     invalid: int = DEFAULT_INVALID
     distance: int = DEFAULT_DISTANCE
     edits: tuple[str, ...] = EDIT_KINDS
+    boundary_limit: int = DEFAULT_BOUNDARY_LIMIT
 
     @property
     def flag_bits(self) -> int:
@@ -251,6 +254,7 @@ class _Reader(TableReader):
             invalid=self.count(table, "invalid", where, DEFAULT_INVALID),
             distance=self.count(table, "distance", where, DEFAULT_DISTANCE, 1, MAX_DISTANCE),
             edits=self.choices(table, "edits", where, EDIT_KINDS, EDIT_KINDS),
+            boundary_limit=self.count(table, "boundary_limit", where, DEFAULT_BOUNDARY_LIMIT),
         )
         if field.min_length is not None and field.max_length is not None \
                 and field.min_length > field.max_length:
