@@ -1,5 +1,8 @@
-"""Boundary: deterministic QA suites from a DFA (shortest paths, range edges, length edges, exits).
+"""Boundary: deterministic QA suites from a DFA (shortest paths, length edges, position-aware edges).
 
-Takes a minimal DFA; gives cases with expected verdicts. Makes no random choice."""
+Takes a minimal DFA; gives cases with expected verdicts, each invalid one with a valid string one
+edit away: ``paths`` (shortest prefixes and completions, lengths, transition cover), ``edges``
+(the edges of every (state, range) in place), ``suite`` (order, merging, limit). Makes no random
+choice."""
 
 __all__: list[str] = []

@@ -19,20 +19,26 @@ and for each maximal range of the characters q refuses (the alphabet minus
 what q allows, split where the caller's *probe* characters begin and end),
 its two ends where they are not ``below``/``above`` already:
 
-- ``outside``: a refused character away from every allowed range (invalid).
-  Probes are the characters a caller wants tried wherever they are refused:
-  the audit passes its hostile characters (a final newline, which ``$``
-  accepts; other scripts' digits, which ``\\d`` accepts; full-width letters),
-  so each meets every position, while alphabet gaps (the audit alphabet is
-  Latin-1 plus a few blocks) make the blocks' own ends range ends.
+- ``outside``: a refused character away from every allowed range (invalid),
+  the probe ranges first. Probes are the characters a caller wants tried
+  wherever they are refused: the audit passes its hostile characters (a
+  final newline, which ``$`` lets through; other scripts' digits, which
+  ``\\d`` takes; full-width letters), so each meets every position. Gaps in
+  the alphabet split refused ranges too (the audit alphabet is Latin-1 plus
+  a few blocks, so each block's ends are range ends).
 
 Every case is prefix(q) + c + tail, where prefix(q) is the shortlex-least
-string reaching q. For c taken by (or just outside) r, tail is the
+string reaching q. For c in r, just outside it, or repeated, tail is the
 shortlex-least completion from t, so the case is one edit from the valid
-string prefix(q) + lo + tail. For ``outside``, tail is empty when q accepts
-(c after a complete valid string) and otherwise the completion from q without
-its first character (c replaces it). Each draft records that valid string
-(its *witness*) and the one edit from it.
+string prefix(q) + e + tail (e the end of r next to c). For ``outside``, tail
+is empty when q accepts (c after a complete valid string) and otherwise the
+completion from q without its first character (c replaces it). Each draft
+records that valid string (its *witness*) and the one edit from it.
+
+Limits: a probe character is tried only where it is refused (where the
+specification allows it, it is an ordinary character of a range); interior
+characters of a range are not tried (a validator that treats the middle of a
+range apart from its ends is out of reach of boundary values).
 
 A (state, character) pair is tested once: a character that ends two ranges
 (the one refused character between two ranges) gets one case, and only the
@@ -51,6 +57,8 @@ from dataclasses import dataclass
 
 from pfuzz.base.charset import CharSet
 from pfuzz.boundary.paths import Guide
+
+__all__ = ["CATEGORY_OF", "KINDS", "Draft", "Verdicts", "ordered_drafts", "state_drafts"]
 
 #: Kinds in the order a round takes them: invalid edges first, then the
 #: repetitions, then the valid edges, then refused characters away from any range.

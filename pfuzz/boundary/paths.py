@@ -37,6 +37,8 @@ from pfuzz.base.constants import UNBOUNDED_SPAN
 from pfuzz.automata.dfa import DFA, transitions
 
 
+__all__ = ["LOOKAHEAD", "Guide", "Lengths"]
+
 #: How many transitions the transition cover looks ahead for one not yet taken.
 LOOKAHEAD = 3
 
