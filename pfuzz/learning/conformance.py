@@ -1,0 +1,204 @@
+"""Equivalence queries without an oracle of equivalence: tests derived from two automata.
+
+Three families of test words, each generated lazily (a test is made when it is asked for, so
+memory stays linear in the hypothesis, never in the size of a suite):
+
+- ``difference_witnesses(model, specification)``: the exact comparison with the
+  specification. For every reachable pair of states of the product automaton (Rabin & Scott,
+  1959) from which a difference can be reached, the shortlex-least string of the symmetric
+  difference that passes through that pair: its shortlex-least access string, then its
+  shortlex-least completion (a breadth-first search backwards from the pairs that disagree).
+  The first of them is the shortlex-least difference (``pfuzz.automata.algebra.distinguish``);
+  the others are the next differences, one per region of the product, so that one confirmed
+  disagreement does not hide the others. At most one word per product pair; cost
+  O(pairs × classes) plus the words' lengths.
+- ``state_tests(tree, hypothesis, n)``: the words ``access(q)·m·w`` for every state ``q``,
+  every word ``m`` of ``n`` representatives, and every suffix ``w`` of the identifier of the
+  state that ``access(q)·m`` reaches in the hypothesis. These are the tests of the Wp-method
+  (S. Fujiwara, G. v. Bochmann, F. Khendek, M. Amalou and A. Ghedamsi, "Test selection based on
+  finite state models", IEEE TSE 17(6), 1991), in the variant whose state identifiers are
+  *harmonised* (any two share a suffix that tells them apart): the discrimination tree's paths
+  are such identifiers, and the tree already tells every pair of states apart, so the
+  Wp-method's first phase (the whole characterisation set after every access string, which
+  costs states² queries) is not needed. With ``n`` from 0 to k + 1 these words make a test
+  suite that is complete for validators of at most (states + k) states (the W-method's bound,
+  T. S. Chow, "Testing software design modeled by finite-state machines", IEEE TSE 4(3),
+  1978), provided the hypothesis agrees with its own tree (``n = 0``, which asks nothing new).
+  ``n = 1`` is exactly the sifting of the transitions, also already asked. Size: states ×
+  classes^n × (tree depth).
+- ``specification_probes(spec, symbols)``: every probe of every class in place of the class's
+  representative after every state of the specification, completed to acceptance: the
+  range edges and interior characters tried at every position the specification knows of,
+  so that an edge moved at a later position is found even when the hypothesis is still far
+  from the validator. Size: spec states × probes.
+- ``probe_tests(tree)``: every probe of every class asked in place of the class's
+  representative after every access string, followed by the identifier of the state the
+  representative leads to; each test carries the word with the representative, whose answer it
+  must match (a mismatch splits the class, ``pfuzz.learning.symbols``).
+"""
+
+from __future__ import annotations
+
+import itertools
+from typing import Iterator
+
+from pfuzz.automata.dfa import DEAD, DFA
+from pfuzz.automata.minimise import minimise
+from pfuzz.base.charset import partition
+from pfuzz.learning.discrimination import Tree
+from pfuzz.learning.symbols import Symbols
+
+__all__ = ["difference_witnesses", "matched_states", "state_tests", "probe_tests",
+           "specification_probes"]
+
+
+def difference_witnesses(a: DFA, b: DFA) -> list[tuple[str, bool]]:
+    """Shortlex-least differences of ``a`` and ``b``: through every reachable product pair, and
+    through every transition out of it; deduplicated, in shortlex order (none when equal), each
+    with whether ``b`` accepts it.
+
+    ``a``'s classes should refine ``b``'s (the hypothesis over the learner's classes), so that
+    every class of the learner is tried after every pair.
+    """
+    graph, suffix, end = _product(a, b)
+    words: dict[str, bool] = {}
+    for i, row in enumerate(graph.successors):
+        if suffix[i] is not None:
+            words[graph.access[i] + suffix[i]] = graph.nodes[end[i]][1] in b.accepting
+        for char, j in row:
+            if suffix[j] is not None:
+                words[graph.access[i] + char + suffix[j]] = graph.nodes[end[j]][1] in b.accepting
+    return sorted(words.items(), key=lambda item: (len(item[0]), item[0]))
+
+
+def matched_states(a: DFA, b: DFA) -> set[int]:
+    """The states of ``a`` reached together with a state of ``b`` that has the same language."""
+    graph, suffix, _ = _product(a, b)
+    return {pair[0] for pair, rest in zip(graph.nodes, suffix) if rest is None}
+
+
+def _product(a: DFA, b: DFA):
+    """The reachable product of ``a`` and ``b`` and, per pair, the shortest way to a difference."""
+    classes = partition(list(a.classes) + list(b.classes), a.alphabet)
+    columns = [(a.class_of(c.min), b.class_of(c.min)) for c in classes]
+
+    def step(pair, column):
+        (sa, sb), (ca, cb) = pair, column
+        nxt = (a.table[sa][ca] if sa >= 0 else DEAD, b.table[sb][cb] if sb >= 0 else DEAD)
+        return None if nxt == (DEAD, DEAD) else nxt
+
+    graph = _Graph((0, 0), step, columns, [chr(c.min) for c in classes])
+    suffix, end = graph.completions(lambda pair: (pair[0] in a.accepting) != (pair[1] in b.accepting))
+    return graph, suffix, end
+
+
+class _Graph:
+    """The part of an automaton reachable from ``start``, breadth first, edges in the given
+    order (by least character), with each node's shortlex-least access string."""
+
+    def __init__(self, start, step, columns, chars):
+        self.index = index = {start: 0}
+        self.nodes, self.access, self.successors = [start], [""], []
+        i = 0
+        while i < len(self.nodes):
+            row = []
+            for column, char in zip(columns, chars):
+                nxt = step(self.nodes[i], column)
+                if nxt is None:
+                    continue
+                j = index.get(nxt)
+                if j is None:
+                    j = index[nxt] = len(self.nodes)
+                    self.nodes.append(nxt)
+                    self.access.append(self.access[i] + char)
+                row.append((char, j))
+            self.successors.append(row)
+            i += 1
+
+    def completions(self, goal) -> tuple[list[str | None], list[int]]:
+        """Per node, the shortlex-least shortest path to a node where ``goal`` holds (None where
+        there is none), and the node it ends at (a breadth-first search backwards)."""
+        predecessors: list[list[int]] = [[] for _ in self.nodes]
+        for i, row in enumerate(self.successors):
+            for _, j in row:
+                predecessors[j].append(i)
+        distance = [-1] * len(self.nodes)
+        order = [i for i, node in enumerate(self.nodes) if goal(node)]
+        for i in order:
+            distance[i] = 0
+        for j in order:  # grows while it is read: a queue
+            for i in predecessors[j]:
+                if distance[i] < 0:
+                    distance[i] = distance[j] + 1
+                    order.append(i)
+        suffix: list[str | None] = [None] * len(self.nodes)
+        end = list(range(len(self.nodes)))
+        for i in order:
+            if distance[i] == 0:
+                suffix[i] = ""
+                continue
+            char, j = next((c, j) for c, j in self.successors[i] if distance[j] == distance[i] - 1)
+            suffix[i], end[i] = char + suffix[j], end[j]
+        return suffix, end
+
+
+def state_tests(tree: Tree, hypothesis: DFA, length: int) -> Iterator[tuple[str, bool]]:
+    """``access(q)·m·w`` for |m| = ``length``, with the hypothesis' answer; ``m`` is made of the
+    least characters of the hypothesis' merged classes (symbols it treats alike everywhere)."""
+    reps = [chr(c.min) for c in minimise(hypothesis).classes]
+    identifiers: dict[int, list[str]] = {}
+    accepting = hypothesis.accepting
+    for q, access in enumerate(tree.access):
+        for middle in itertools.product(reps, repeat=length):
+            word = "".join(middle)
+            target = hypothesis.run(word, q)
+            if target not in identifiers:
+                identifiers[target] = tree.identifier(target)
+            for suffix in identifiers[target]:
+                yield access + word + suffix, hypothesis.run(suffix, target) in accepting
+
+
+def probe_tests(tree: Tree, skip: set[int]) -> Iterator[tuple[str, tuple[str, str, str, str]]]:
+    """Each probe in place of its representative after the access string of each state not in
+    ``skip``, then each suffix of the identifier of the state the representative leads to:
+    ``(word, (reference, before, probe, after))``."""
+    symbols = tree.symbols
+    for a in symbols.ordered():
+        cls = symbols.classes[a]
+        rep = cls.representative
+        for probe in cls.probes:
+            if probe == rep:
+                continue
+            for q, access in enumerate(tree.access):
+                if q in skip:
+                    continue
+                for suffix in tree.identifier(tree.targets[q][a].state):
+                    yield access + probe + suffix, (access + rep + suffix, access, probe, suffix)
+
+
+def specification_probes(spec: DFA, symbols: Symbols) -> Iterator[tuple[str, tuple[str, str, str, str]]]:
+    """Each probe in place of its representative after every state of the specification:
+    reached by its shortlex-least access string, completed by the shortlex-least shortest
+    accepted suffix of where the class leads (where it leads nowhere, by the rest of the
+    state's own shortest suffix, as in a replaced character). Same form as ``probe_tests``."""
+    order = symbols.ordered()
+    reps = [symbols.representative(a) for a in order]
+    columns = [spec.class_of(rep) for rep in reps]
+    graph = _Graph(0, lambda s, c: spec.table[s][c] if spec.table[s][c] >= 0 else None,
+                   columns, reps)
+    suffix, _ = graph.completions(lambda s: s in spec.accepting)
+    for i, state in enumerate(graph.nodes):
+        if suffix[i] is None:
+            continue
+        before, own = graph.access[i], suffix[i]
+        for a, rep, column in zip(order, reps, columns):
+            target = spec.table[state][column]
+            if target >= 0:
+                after = suffix[graph.index[target]]
+            elif own:
+                after = own[1:]
+            else:
+                continue
+            for probe in symbols.classes[a].probes:
+                if probe != rep:
+                    yield before + probe + after, (before + rep + after, before, probe, after)
