@@ -24,8 +24,10 @@ class Language:
     """A regular language over an alphabet, backed by its minimal DFA."""
 
     def __init__(self, dfa: DFA, *, pattern: str | None = None, flags: int = 0,
-                 alphabet_name: str | None = None):
+                 alphabet_name: str | None = None, state_cap: int = DEFAULT_STATE_CAP):
         self.dfa = dfa
+        #: The state cap of every automaton built from this language (products, near misses).
+        self.state_cap = state_cap
         self.pattern = pattern
         self.flags = flags
         self.alphabet_name = alphabet_name or dfa.alphabet.describe()
@@ -42,10 +44,18 @@ class Language:
 
         charset = resolve_alphabet(alphabet)
         dfa = compile_dfa(pattern, charset, flags=flags, cap=state_cap, mode=mode)
-        return cls(dfa, pattern=pattern, flags=flags, alphabet_name=alphabet_label(alphabet))
+        return cls(dfa, pattern=pattern, flags=flags, alphabet_name=alphabet_label(alphabet),
+                   state_cap=state_cap)
 
-    def _wrap(self, dfa: DFA, pattern: str | None = None) -> "Language":
-        return Language(dfa, pattern=pattern, alphabet_name=self.alphabet_name)
+    def _wrap(self, dfa: DFA, pattern: str | None = None, state_cap: int | None = None
+              ) -> "Language":
+        return Language(dfa, pattern=pattern, alphabet_name=self.alphabet_name,
+                        state_cap=self.state_cap if state_cap is None else state_cap)
+
+    def _combine(self, operation, other: "Language") -> "Language":
+        """``operation(a, b, cap)`` of the two DFAs, under the smaller of the two caps."""
+        cap = min(self.state_cap, other.state_cap)
+        return self._wrap(operation(self.dfa, other.dfa, cap), state_cap=cap)
 
     # -- basic facts -----------------------------------------------------------------
     @property
@@ -87,19 +97,19 @@ class Language:
 
     # -- boolean algebra ---------------------------------------------------------------
     def complement(self) -> "Language":
-        return self._wrap(algebra.complement(self.dfa))
+        return self._wrap(algebra.complement(self.dfa, self.state_cap))
 
     def __and__(self, other: "Language") -> "Language":
-        return self._wrap(algebra.intersection(self.dfa, other.dfa))
+        return self._combine(algebra.intersection, other)
 
     def __or__(self, other: "Language") -> "Language":
-        return self._wrap(algebra.union(self.dfa, other.dfa))
+        return self._combine(algebra.union, other)
 
     def __sub__(self, other: "Language") -> "Language":
-        return self._wrap(algebra.difference(self.dfa, other.dfa))
+        return self._combine(algebra.difference, other)
 
     def __xor__(self, other: "Language") -> "Language":
-        return self._wrap(algebra.symmetric_difference(self.dfa, other.dfa))
+        return self._combine(algebra.symmetric_difference, other)
 
     def distinguish(self, other: "Language") -> str | None:
         """None when equal, else the shortlex-least string in exactly one of them."""
@@ -111,11 +121,11 @@ class Language:
     def with_any_suffix(self) -> "Language":
         """L·U*: the strings that start with a string of L. Not ``re.match`` of the
         pattern when it ends in ``$`` (compile with ``mode="match"`` for that)."""
-        return self._wrap(algebra.with_any_suffix(self.dfa))
+        return self._wrap(algebra.with_any_suffix(self.dfa, self.state_cap))
 
     def with_any_prefix(self) -> "Language":
         """U*·L: the strings that end with a string of L."""
-        return self._wrap(algebra.concatenate(universal(self.alphabet), self.dfa))
+        return self._wrap(algebra.concatenate(universal(self.alphabet), self.dfa, self.state_cap))
 
     # -- counting and sampling (pfuzz.counting.tables) -------------------------------------------
     @property
@@ -159,7 +169,8 @@ class Language:
         key = ("near", distance, tuple(sorted(kinds)) if kinds else None)
         if key not in self._derived:
             from pfuzz.nearmiss.rejects import near_miss_dfa
-            self._derived[key] = self._wrap(near_miss_dfa(self.dfa, distance, kinds))
+            self._derived[key] = self._wrap(near_miss_dfa(self.dfa, distance, kinds,
+                                                          cap=self.state_cap))
         return self._derived[key]
 
     def explain(self, text: str):
@@ -173,7 +184,7 @@ class Language:
         from pfuzz.nearmiss.rejects import sample_rejects
         return sample_rejects(self.dfa, n, distance=distance, kinds=kinds, seed=seed,
                               min_length=min_length, max_length=max_length, edges=edges,
-                              progress=progress)
+                              progress=progress, cap=self.state_cap)
 
     # -- boundary suites and back-translation ---------------------------------------------
     def boundary_cases(self, max_length: int | None = None, **options):

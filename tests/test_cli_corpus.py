@@ -61,7 +61,7 @@ def test_existing_output_needs_force(tmp_path):
     path = profile(tmp_path)
     assert run("corpus", path, "--out", str(out)).exit_code == 0
     again = run("corpus", path, "--out", str(out), "--seed", "9")
-    assert again.exit_code == 2 and "already exists; use --force" in again.stderr
+    assert again.exit_code == 2 and "already exists; pass --force to replace it" in again.stderr
     assert "Traceback" not in again.output and seed_of(out) == 5
     forced = run("corpus", path, "--out", str(out), "--seed", "9", "--force")
     assert forced.exit_code == 0 and seed_of(out) == 9

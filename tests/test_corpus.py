@@ -290,7 +290,7 @@ def test_existing_directory_is_not_replaced_without_force(tmp_path, small_corpus
     out = tmp_path / "out"
     out.mkdir()
     (out / "keep.txt").write_text("mine")
-    with pytest.raises(CorpusExistsError, match="--force"):
+    with pytest.raises(CorpusExistsError, match="pass force=True"):
         write_corpus(profile_file(tmp_path), out)
     assert (out / "keep.txt").read_text() == "mine"
 

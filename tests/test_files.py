@@ -99,8 +99,125 @@ def test_process_killed_mid_write_leaves_the_old_file_whole(old_file):
     done = subprocess.run([sys.executable, "-c", _KILLED_WRITER, str(old_file)])
     assert done.returncode == -9
     assert old_file.read_text(encoding="utf-8") == OLD
-    # Nothing can clean up after SIGKILL: the hidden temporary stays, the target is intact.
+    # Nothing can clean up after SIGKILL: the hidden temporary stays, the target is intact ...
     assert len(leftovers(old_file.parent)) == 1
+    # ... until the next write beside the same target, which removes it (its owner is gone).
+    write_atomic(old_file, "next\n")
+    assert leftovers(old_file.parent) == []
+    assert old_file.read_text(encoding="utf-8") == "next\n"
+
+
+_TERMINATED_WRITER = """
+import os, signal, sys
+from pfuzz.base.files import BUFFER_SIZE, Terminated, atomic_writer
+try:
+    with atomic_writer(sys.argv[1]) as out:
+        out.write("x" * (2 * BUFFER_SIZE))
+        out.flush()
+        os.kill(os.getpid(), signal.SIGTERM)
+        out.write("never reached")
+except Terminated as stop:
+    sys.exit(128 + stop.signal_number)
+"""
+
+
+@pytest.mark.skipif(sys.platform == "win32", reason="SIGTERM is POSIX")
+def test_sigterm_mid_write_cleans_up_like_ctrl_c(old_file):
+    done = subprocess.run([sys.executable, "-c", _TERMINATED_WRITER, str(old_file)])
+    assert done.returncode == 128 + 15                 # the shell's status for SIGTERM
+    assert old_file.read_text(encoding="utf-8") == OLD
+    assert leftovers(old_file.parent) == []
+
+
+@pytest.mark.skipif(sys.platform == "win32", reason="signals are POSIX")
+def test_a_program_s_own_sigterm_handler_is_left_alone(tmp_path):
+    import signal
+
+    def own(_number, _frame):
+        pass
+
+    previous = signal.signal(signal.SIGTERM, own)
+    try:
+        with files.terminate_as_interrupt():
+            assert signal.getsignal(signal.SIGTERM) is own
+        with atomic_writer(tmp_path / "x.txt") as out:
+            assert signal.getsignal(signal.SIGTERM) is own
+            out.write("x")
+        assert signal.getsignal(signal.SIGTERM) is own
+    finally:
+        signal.signal(signal.SIGTERM, previous)
+    with files.terminate_as_interrupt():
+        assert signal.getsignal(signal.SIGTERM) is not signal.SIG_DFL
+    assert signal.getsignal(signal.SIGTERM) is signal.SIG_DFL
+
+
+def _dead_pid() -> int:
+    """The id of a process that has ended (a child, waited for)."""
+    child = subprocess.run([sys.executable, "-c", "import os; print(os.getpid())"],
+                           capture_output=True, text=True, check=True)
+    return int(child.stdout)
+
+
+def test_remove_stale_takes_only_siblings_of_gone_owners_on_this_host(tmp_path):
+    target = tmp_path / "data.txt"
+    host = files._host_tag()
+    dead, alive = _dead_pid(), os.getpid()
+    names = {
+        "dead": f".data.txt.{dead}-{host}.abcd1234.tmp",
+        "alive": f".data.txt.{alive}-{host}.abcd1234.tmp",
+        "other host": f".data.txt.{dead}-{'0' * 12}.abcd1234.tmp",
+        "other target": f".data.txt2.{dead}-{host}.abcd1234.tmp",
+        "no owner": ".data.txt.abcd1234.tmp",
+        "other suffix": f".data.txt.{dead}-{host}.abcd1234.partial",
+    }
+    for name in names.values():
+        (tmp_path / name).write_text("x")
+    files.remove_stale(target, ".tmp")
+    assert sorted(p.name for p in tmp_path.iterdir()) == sorted(
+        name for what, name in names.items() if what != "dead")
+
+
+# -- what a write may replace ---------------------------------------------------------------
+
+@pytest.mark.parametrize("writer", ["whole", "streaming"])
+def test_a_symbolic_link_is_not_replaced(tmp_path, writer):
+    from pfuzz.errors import OutputError
+
+    real = tmp_path / "real.txt"
+    real.write_text(OLD)
+    link = tmp_path / "link.txt"
+    link.symlink_to(real.name)
+    with pytest.raises(OutputError, match="symbolic link"):
+        if writer == "whole":
+            write_atomic(link, "new")
+        else:
+            with atomic_writer(link) as out:
+                out.write("new")
+    assert link.is_symlink() and os.readlink(link) == real.name
+    assert real.read_text() == OLD and leftovers(tmp_path) == []
+
+
+@pytest.mark.skipif(sys.platform == "win32", reason="FIFOs are POSIX")
+def test_folders_pipes_and_devices_are_not_replaced(tmp_path):
+    from pfuzz.errors import OutputError
+
+    (tmp_path / "folder").mkdir()
+    os.mkfifo(tmp_path / "pipe")
+    for path, kind in [(tmp_path / "folder", "a folder"), (tmp_path / "pipe", "a pipe"),
+                       (Path(os.devnull), "a character device")]:
+        with pytest.raises(OutputError, match=kind):
+            write_atomic(path, "x")
+    assert (tmp_path / "folder").is_dir() and Path(os.devnull).is_char_device()
+    assert leftovers(tmp_path) == []
+
+
+def test_a_nul_in_the_name_is_an_output_error_naming_the_parameter(tmp_path):
+    from pfuzz.errors import OutputError
+
+    with pytest.raises(OutputError, match="NUL character") as caught:
+        write_atomic(str(tmp_path / "a\x00b"), "x")
+    assert "give another path" in str(caught.value)
+    assert "give another --out" in caught.value.for_options({"path": "--out"})
 
 
 def test_line_ends_are_the_callers_choice(tmp_path):

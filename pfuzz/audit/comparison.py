@@ -134,4 +134,4 @@ def lift(lang: Language, alphabet: CharSet) -> Language:
     table = tuple(row + (DEAD,) for row in dfa.table)
     wider = DFA(alphabet, dfa.classes + (extra,), table, dfa.accepting)
     return Language(minimise(wider), pattern=lang.pattern, flags=lang.flags,
-                    alphabet_name=alphabet.describe())
+                    alphabet_name=alphabet.describe(), state_cap=lang.state_cap)

@@ -60,23 +60,23 @@ def product(a: DFA, b: DFA, accept: Callable[[bool, bool], bool], cap: int = DEF
     return minimise(explore((0, 0), step, is_accepting, classes, a.alphabet, cap))
 
 
-def intersection(a: DFA, b: DFA) -> DFA:
-    return product(a, b, lambda x, y: x and y)
+def intersection(a: DFA, b: DFA, cap: int = DEFAULT_STATE_CAP) -> DFA:
+    return product(a, b, lambda x, y: x and y, cap)
 
 
-def union(a: DFA, b: DFA) -> DFA:
-    return product(a, b, lambda x, y: x or y)
+def union(a: DFA, b: DFA, cap: int = DEFAULT_STATE_CAP) -> DFA:
+    return product(a, b, lambda x, y: x or y, cap)
 
 
-def difference(a: DFA, b: DFA) -> DFA:
-    return product(a, b, lambda x, y: x and not y)
+def difference(a: DFA, b: DFA, cap: int = DEFAULT_STATE_CAP) -> DFA:
+    return product(a, b, lambda x, y: x and not y, cap)
 
 
-def symmetric_difference(a: DFA, b: DFA) -> DFA:
-    return product(a, b, lambda x, y: x != y)
+def symmetric_difference(a: DFA, b: DFA, cap: int = DEFAULT_STATE_CAP) -> DFA:
+    return product(a, b, lambda x, y: x != y, cap)
 
 
-def complement(dfa: DFA) -> DFA:
+def complement(dfa: DFA, cap: int = DEFAULT_STATE_CAP) -> DFA:
     """Minimal DFA of alphabet* minus L."""
     def step(s, c):
         return dfa.table[s][c] if s >= 0 else DEAD
@@ -84,7 +84,7 @@ def complement(dfa: DFA) -> DFA:
     def is_accepting(s):
         return s not in dfa.accepting
 
-    return minimise(explore(0, step, is_accepting, dfa.classes, dfa.alphabet))
+    return minimise(explore(0, step, is_accepting, dfa.classes, dfa.alphabet, cap))
 
 
 def concatenate(a: DFA, b: DFA, cap: int = DEFAULT_STATE_CAP) -> DFA:
@@ -109,9 +109,9 @@ def concatenate(a: DFA, b: DFA, cap: int = DEFAULT_STATE_CAP) -> DFA:
     return minimise(explore(start, step, is_accepting, classes, a.alphabet, cap))
 
 
-def with_any_suffix(dfa: DFA) -> DFA:
+def with_any_suffix(dfa: DFA, cap: int = DEFAULT_STATE_CAP) -> DFA:
     """Minimal DFA of L·alphabet* (strings with a prefix in L)."""
-    return concatenate(dfa, universal(dfa.alphabet))
+    return concatenate(dfa, universal(dfa.alphabet), cap)
 
 
 # -- questions ---------------------------------------------------------------------

@@ -138,7 +138,7 @@ def _specification(profile, pattern, pattern_file, field, alphabet, flags, state
             fail(f"--{name.replace('_', '-')} applies to --pattern; a profile sets each field's own")
     from pfuzz.profile.loader import load_profile
 
-    loaded = load_profile(profile)
+    loaded = load_profile(profile, state_cap)
     chosen = _field(loaded, field, profile)
     return (chosen.language(), f"{profile} field {chosen.name}", chosen.distance, chosen.edits,
             chosen.boundary_limit)

@@ -9,6 +9,7 @@ parse options, call the library, and print.
 from __future__ import annotations
 
 import functools
+import gc
 import re
 import sys
 from pathlib import Path
@@ -18,10 +19,11 @@ import click
 
 from pfuzz.base.charset import DEFAULT_ALPHABET, ALPHABETS
 from pfuzz.automata.dfa import DEFAULT_STATE_CAP
-from pfuzz.errors import EmptyLanguageError, PatternError, PfuzzError
-from pfuzz.base.escaping import escape_text
-from pfuzz.base.files import write_atomic
+from pfuzz.errors import EmptyLanguageError, OutputError, PatternError, PfuzzError, shorten
+from pfuzz.base.escaping import escape_point, escape_text
+from pfuzz.base.files import Terminated, terminate_as_interrupt, write_atomic
 from pfuzz.base.jsonlines import jsonl_line
+from pfuzz.base.resources import require_memory, string_bytes
 
 EXIT_OK, EXIT_DIFFERENT, EXIT_USAGE = 0, 1, 2
 
@@ -29,39 +31,90 @@ ALPHABET_HELP = (f"Characters to work over: {', '.join(ALPHABETS)}, or a class s
                  f"'[a-z0-9]'. Default: {DEFAULT_ALPHABET} (U+0020-U+007E).")
 
 
+#: Longest error line printed: a longer one keeps its head and its tail.
+MESSAGE_LIMIT = 400
+
+#: The command line's words for the library parameters that messages advise on.
+OPTION_NAMES = {"out_dir": "--out", "path": "--out", "force": "--force"}
+
+
+def one_line(message: str, limit: int = MESSAGE_LIMIT) -> str:
+    """``message`` as one line: line breaks and control characters become escapes (a
+    newline in a file name must not split the line), and a very long one is cut."""
+    if not message.isprintable():
+        message = "".join(ch if ch.isprintable() else escape_point(ord(ch), "text")
+                          for ch in message)
+    return shorten(message, limit)
+
+
 def fail(message: str, detail: str = "") -> NoReturn:
     """Print one error line (and an optional detail block) and exit with status 2."""
-    click.echo(f"pfuzz: error: {message}", err=True)
+    click.echo(f"pfuzz: error: {one_line(message)}", err=True)
     if detail:
         click.echo(detail, err=True)
     sys.exit(EXIT_USAGE)
 
 
+def _debugging() -> bool:
+    return bool((click.get_current_context().find_root().obj or {}).get("debug"))
+
+
 def report_errors(func):
-    """Turn pfuzz's own errors into one clear line and exit status 2 (``--debug`` re-raises)."""
+    """Turn pfuzz's own errors into one clear line and exit status 2 (``--debug`` re-raises).
+
+    SIGTERM and SIGHUP unwind the command as Ctrl-C does (every temporary file and
+    staging folder is removed), then exit with the shell's status for the signal."""
     @functools.wraps(func)
     def wrapper(*args, **kwargs):
-        ctx = click.get_current_context()
         try:
-            return func(*args, **kwargs)
-        except PatternError as error:
-            if (ctx.find_root().obj or {}).get("debug"):
-                raise
-            where = f" at {error.where()}" if error.colno is not None else ""
-            fail(f"bad pattern{where}: {error.message}", error.caret())
-        except EmptyLanguageError as error:
-            if (ctx.find_root().obj or {}).get("debug"):
-                raise
-            fail(str(error), _alphabet_hint(kwargs))
-        except (PfuzzError, OSError) as error:
-            if (ctx.find_root().obj or {}).get("debug"):
-                raise
-            fail(str(error))
-        except MemoryError:
-            if (ctx.find_root().obj or {}).get("debug"):
-                raise
-            fail("not enough memory for this request; ask for fewer strings or shorter lengths")
+            with terminate_as_interrupt():
+                return _reporting(func, args, kwargs)
+        except Terminated as stop:
+            click.echo(f"pfuzz: stopped by {stop}; nothing was left half-written", err=True)
+            sys.exit(128 + stop.signal_number)
     return wrapper
+
+
+def _reporting(func, args, kwargs):
+    try:
+        return func(*args, **kwargs)
+    except PatternError as error:
+        if _debugging():
+            raise
+        where = f" at {error.where()}" if error.colno is not None else ""
+        fail(f"bad pattern{where}: {error.message}", error.caret())
+    except EmptyLanguageError as error:
+        if _debugging():
+            raise
+        fail(str(error), _alphabet_hint(kwargs))
+    except OutputError as error:
+        if _debugging():
+            raise
+        fail(error.for_options(OPTION_NAMES))
+    except PfuzzError as error:             # a profile's pattern may be past the state cap too
+        if _debugging():
+            raise
+        fail(_state_cap_advice(str(error), kwargs), getattr(error, "detail", ""))
+    except OSError as error:
+        if _debugging():
+            raise
+        fail(str(error))
+    except MemoryError:
+        if _debugging():
+            raise
+    # Out of memory. Leaving the handler above dropped the exception, its traceback and the
+    # frames that held the huge objects; only now, with that memory free, is there room to
+    # report (reporting inside the handler failed a second time, with a traceback).
+    gc.collect()
+    fail("not enough memory for this request; ask for fewer strings or shorter lengths")
+
+
+def _state_cap_advice(message: str, options: dict) -> str:
+    """The library says "raise the cap" (``StateLimitError``); a command with --state-cap
+    names the option, which reaches every automaton it builds."""
+    if "state_cap" not in options:
+        return message
+    return message.replace("raise the cap", f"raise --state-cap (now {options['state_cap']:,})")
 
 
 def _alphabet_hint(options: dict) -> str:
@@ -111,12 +164,17 @@ def read_pattern_file(path: Path) -> str:
     return text[:-1] if text.endswith("\n") else text
 
 
+#: --state-cap N; passes ``state_cap``. Every automaton a command builds honours it.
+state_cap_option = click.option(
+    "--state-cap", type=click.IntRange(min=1), default=DEFAULT_STATE_CAP, show_default=True,
+    help="Stop with an error past this many states in any automaton the command builds.")
+
+
 def language_options(func):
     """--alphabet, --ignore-case, --state-cap; passes ``alphabet``, ``flags``, ``state_cap``."""
     @click.option("--alphabet", default=DEFAULT_ALPHABET, show_default=True, help=ALPHABET_HELP)
     @click.option("--ignore-case", "-i", is_flag=True, help="Compile as with re.IGNORECASE.")
-    @click.option("--state-cap", type=click.IntRange(min=1), default=DEFAULT_STATE_CAP,
-                  show_default=True, help="Stop with an error past this many DFA states.")
+    @state_cap_option
     @functools.wraps(func)
     def wrapper(*args, ignore_case=False, **kwargs):
         return func(*args, flags=re.IGNORECASE if ignore_case else 0, **kwargs)
@@ -132,6 +190,18 @@ def compile_language(pattern: str, alphabet: str, flags: int, state_cap: int):
 #: would already be 8 PiB), yet small enough that numpy can size the arrays and say
 #: that it is out of memory (which ``report_errors`` turns into one line).
 MAX_HOW_MANY = 2**50
+
+
+def require_output_memory(how_many: int, longest: int, lang, per_item: int = 0,
+                          copies: int = 3) -> None:
+    """Refuse (``ResourceLimitError``) before drawing when ``how_many`` strings of up to
+    ``longest`` characters, held ``copies`` times over (the strings, their rendered lines,
+    the finished text) plus ``per_item`` bytes each, would be past the memory budget."""
+    widest = lang.alphabet.max if lang.alphabet else 0
+    each = copies * string_bytes(longest, widest) + per_item
+    characters = "character" if longest == 1 else "characters"
+    require_memory(how_many * each, f"{how_many:,} strings of up to {longest:,} {characters}",
+                   "ask for fewer (-n) or shorter ones (--max-length)")
 
 
 def how_many_option(what: str):

@@ -3,15 +3,16 @@
 from __future__ import annotations
 
 import sys
+import warnings
 from pathlib import Path
 
 import click
 
 from pfuzz.boundary.suite import DEFAULT_LIMIT as DEFAULT_BOUNDARY_LIMIT
 from pfuzz.corpus.writer import step_count, write_corpus
-from pfuzz.errors import ProfileError
+from pfuzz.errors import PfuzzWarning
 from pfuzz.profile.loader import load_profile
-from .common import fail, out_option, report_errors, seed_option
+from .common import fail, note, out_option, report_errors, seed_option, state_cap_option
 
 
 @click.command("corpus")
@@ -20,17 +21,19 @@ from .common import fail, out_option, report_errors, seed_option
 @out_option
 @seed_option
 @click.option("--force", is_flag=True,
-              help="Replace OUT if it holds an earlier corpus (or is empty).")
+              help="Replace OUT if it holds an earlier corpus and nothing else (or is empty).")
+@state_cap_option
 @click.option("--boundary-limit", type=click.IntRange(min=0), default=None,
               help="Boundary cases kept per field (default: each field's boundary_limit key, "
                    f"else {DEFAULT_BOUNDARY_LIMIT:,}).")
 @click.pass_context
 @report_errors
-def corpus(ctx, profile_path, out, seed, force, boundary_limit):
+def corpus(ctx, profile_path, out, seed, force, boundary_limit, state_cap):
     """Write valid strings, near-miss rejects and boundary cases for every field of PROFILE.
 
     PROFILE is a TOML file describing fields (pattern, require, forbid,
-    lengths, counts) and optionally a record with faker context columns. OUT
+    lengths, counts) and optionally a record with faker context columns, or
+    the name of a shipped profile (pfuzz profiles lists them). OUT
     receives, all at once or not at all: fields/NAME/{valid,rejects,boundary}.jsonl,
     records/NAME/{valid,invalid}.csv, cases.csv (every case in one table),
     manifest.json (versions, counts per length, checksums) and SHA256SUMS.
@@ -39,20 +42,20 @@ def corpus(ctx, profile_path, out, seed, force, boundary_limit):
     \b
     Example:
       pfuzz corpus profiles/demo.toml --out demo-corpus
-      pfuzz corpus profiles/demo.toml --out demo-corpus --seed 7 --force
+      pfuzz corpus ipv4 --out ipv4-corpus --seed 7 --force
     """
     if out is None:
         fail("give the output directory with --out DIR")
-    try:
-        profile = load_profile(profile_path)
-    except ProfileError as error:
-        if (ctx.find_root().obj or {}).get("debug"):
-            raise
-        fail(str(error), error.detail)
+    profile = load_profile(profile_path, state_cap)
     chosen = seed if ctx.get_parameter_source("seed") is not click.core.ParameterSource.DEFAULT \
         else None
-    summary = _run(profile, out, chosen, force, boundary_limit)
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", PfuzzWarning)
+        summary = _run(profile, out, chosen, force, boundary_limit)
     _print_summary(summary)
+    for warning in caught:
+        if issubclass(warning.category, PfuzzWarning):
+            note(f"warning: {warning.message}")
 
 
 def _run(profile, out: Path, seed, force: bool, boundary_limit=None):

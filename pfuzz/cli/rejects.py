@@ -17,11 +17,12 @@ from pfuzz.base.jsonlines import json_text, jsonl_line
 from pfuzz.base.constants import UNBOUNDED_SPAN
 from pfuzz.automata.algebra import is_finite
 from pfuzz.base.constants import EDIT_KINDS
+from pfuzz.base.resources import REJECT_BYTES
 from pfuzz.nearmiss.rejects import length_range, near_miss_dfa, sample_rejects
 from .common import (EXIT_DIFFERENT, compile_language, emit, escape_text, fail, format_option,
                      how_many_option, language_options, max_length_option, min_length_option,
                      out_option, pattern_input, report_errors, seed_option)
-from .common import render_strings, wants_progress
+from .common import render_strings, require_output_memory, wants_progress
 
 
 @click.command("reject")
@@ -61,13 +62,16 @@ def reject(pattern, alphabet, flags, state_cap, how_many, distance, kinds, edges
     if min_length is not None and max_length is not None and min_length > max_length:
         fail(f"--min-length {min_length} is greater than --max-length {max_length}")
     asked = list(kinds) or None
-    low, high = length_range(lang.dfa, distance, asked, min_length, max_length, edges=edges)
-    if max_length is None and not is_finite(near_miss_dfa(lang.dfa, distance, asked, edges=edges)):
+    low, high = length_range(lang.dfa, distance, asked, min_length, max_length, edges=edges,
+                             cap=state_cap)
+    near = near_miss_dfa(lang.dfa, distance, asked, edges=edges, cap=state_cap)
+    if max_length is None and not is_finite(near):
         click.echo(f"pfuzz: the near-miss language is unbounded: lengths up to {high} "
                    f"({UNBOUNDED_SPAN} above the shortest considered); set --max-length to "
                    "change it", err=True)
+    require_output_memory(how_many, high, lang, per_item=REJECT_BYTES)
     arguments = dict(distance=distance, kinds=asked, seed=seed, min_length=low,
-                     max_length=high, edges=edges)
+                     max_length=high, edges=edges, cap=state_cap)
     if wants_progress(how_many):
         with click.progressbar(length=how_many, label="rejects", file=sys.stderr) as bar:
             rejects = sample_rejects(lang.dfa, how_many, progress=bar.update, **arguments)

@@ -19,7 +19,8 @@ from pfuzz.errors import PfuzzWarning
 from pfuzz.counting.sampler import METHODS
 from .common import (compile_language, emit, fail, format_option, how_many_option,
                      language_options, max_length_option, min_length_option, note, out_option,
-                     pattern_input, render_strings, report_errors, seed_option, wants_progress)
+                     pattern_input, render_strings, report_errors, require_output_memory,
+                     seed_option, wants_progress)
 
 
 @contextlib.contextmanager
@@ -129,7 +130,8 @@ def sample(pattern, alphabet, flags, state_cap, how_many, seed, min_length, max_
       pfuzz sample '[a-z]+@[a-z]+\\.org' -n 1000 --max-length 20 --unique --format jsonl
     """
     lang = compile_language(pattern, alphabet, flags, state_cap)
-    _bounds(lang, min_length, max_length)
+    _low, high = _bounds(lang, min_length, max_length)
+    require_output_memory(how_many, high, lang)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", PfuzzWarning)
         strings = _sample_with_progress(lang, how_many, min_length, max_length, seed, lengths,

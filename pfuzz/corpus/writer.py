@@ -64,6 +64,7 @@ from pfuzz.corpus.rows import (RecordTables, case_ids, edit_list, record_tables,
 from pfuzz.errors import ArgumentError, ProfileError
 from pfuzz.profile.loader import Field, Profile, load_profile
 from pfuzz.base.randomness import RandomSource
+from pfuzz.base.resources import REJECT_BYTES, require_memory, string_bytes
 
 CASE_COLUMNS = ("case_id", "field", "value", "expected", "category", "reason", "witness",
                 "edits", "file")
@@ -133,6 +134,7 @@ def write_corpus(profile: "Profile | str | Path", out_dir: "str | Path", seed: i
     out_dir = Path(out_dir)
     seed = _choose_seed(profile, seed)
     replace = check_target(out_dir, force)
+    check_memory(profile)
     tick = progress or (lambda label: None)
     seeds = _child_seeds(profile, seed)
     with Staging(out_dir, replace=replace) as staging:
@@ -171,15 +173,46 @@ def _child_seeds(profile: Profile, seed: int) -> dict:
 
 # -- per field -------------------------------------------------------------------
 
+def _window(lang) -> tuple[int, int, bool]:
+    """(shortest, longest, finite): the lengths a field's valid strings are drawn from."""
+    low = lang.min_length
+    finite = lang.max_length is not None
+    return low, (lang.max_length if finite else low + UNBOUNDED_SPAN), finite
+
+
+def check_memory(profile: Profile) -> None:
+    """Refuse (``ResourceLimitError``) before any work when one field's strings, rejects or
+    the record's rows, all of which are held at once, would be past the memory budget."""
+    longest = {}
+    for field in profile.fields:
+        lang = field.language()
+        if lang.is_empty():
+            continue                        # reported in its turn, with the field's name
+        widest, high = lang.alphabet.max, _window(lang)[1]
+        longest[field.name] = string_bytes(high, widest)
+        where = f"field '{field.name}'"
+        require_memory(field.valid * 2 * longest[field.name],
+                       f"{where}: {field.valid:,} valid strings of up to {high:,} characters",
+                       "lower its valid or max_length key")
+        longest_reject = high + field.distance
+        require_memory(field.invalid * (REJECT_BYTES + 2 * string_bytes(longest_reject, widest)),
+                       f"{where}: {field.invalid:,} near-miss rejects of up to "
+                       f"{longest_reject:,} characters", "lower its invalid or max_length key")
+    record = profile.record
+    if record is not None:
+        rows = record.valid_rows + record.invalid_rows
+        row = sum(longest.get(name, 0) for name in record.fields) + REJECT_BYTES
+        require_memory(rows * row, f"record '{record.name}': {rows:,} rows",
+                       "lower its valid_rows or invalid_rows key, or its fields' max_length")
+
+
 def _field_cases(field: Field, seeds: tuple[int, int], tick, boundary_limit=None) -> FieldCases:
     lang = field.language()
     if lang.is_empty():
         raise ProfileError("no string satisfies the pattern with its require, forbid and "
                            f"length keys over the alphabet {field.alphabet!r}",
                            where=f"field '{field.name}'")
-    low = lang.min_length
-    finite = lang.max_length is not None
-    high = lang.max_length if finite else low + UNBOUNDED_SPAN
+    low, high, finite = _window(lang)
     counts = {n: c for n, c in lang.counts(low, high).items() if c}
     valid, mode = _valid_strings(lang, field.valid, low, high, sum(counts.values()), seeds[0])
     tick(f"{field.name}: valid")

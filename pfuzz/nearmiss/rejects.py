@@ -86,10 +86,11 @@ def near_miss_dfa(dfa: DFA, distance: int = 1, kinds: "Sequence[str] | None" = N
 
     ``kinds`` restricts the edit operations the alignments may use (see the
     module docstring); ``edges`` restricts written characters to range edges.
-    Results are cached per (DFA, distance, kinds, edges).
+    Results are cached per (DFA, distance, kinds, edges, cap); past ``cap`` states the
+    construction stops with ``StateLimitError``.
     """
     distance, kinds = check_distance(distance), check_kinds(kinds)
-    key = (dfa, distance, kinds, bool(edges))
+    key = (dfa, distance, kinds, bool(edges), cap)
     hit = _CACHE.get(key)
     if hit is None:
         hit = build(dfa, distance, kinds, bool(edges), cap)
@@ -126,9 +127,10 @@ class Reject:
                 "distance": self.distance, "edits": [e.as_dict() for e in self.edits]}
 
 
-def kinds_of(dfa: DFA, text: str, distance: int = 1) -> tuple[str, ...]:
+def kinds_of(dfa: DFA, text: str, distance: int = 1, cap: int = DEFAULT_STATE_CAP
+             ) -> tuple[str, ...]:
     """The kinds K whose near-miss language at ``distance`` holds ``text``."""
-    return _Rejecter(dfa, distance).kinds(text)
+    return _Rejecter(dfa, distance, cap).kinds(text)
 
 
 class _Rejecter:
@@ -139,11 +141,12 @@ class _Rejecter:
     beyond, each kind's own near-miss DFA is asked.
     """
 
-    def __init__(self, dfa: DFA, distance: int):
+    def __init__(self, dfa: DFA, distance: int, cap: int = DEFAULT_STATE_CAP):
         self.dfa, self.distance = dfa, check_distance(distance)
         self.tables = corrector(dfa)
         self.by_kind = [] if distance == 1 else [
-            (kind, corrector(near_miss_dfa(dfa, distance, [kind]))) for kind in EDIT_KINDS]
+            (kind, corrector(near_miss_dfa(dfa, distance, [kind], cap=cap)))
+            for kind in EDIT_KINDS]
 
     def kinds(self, text: str) -> tuple[str, ...]:
         if self.distance == 1:
@@ -163,7 +166,8 @@ class _Rejecter:
 
 def sample_rejects(dfa: DFA, n: int, *, distance: int = 1, kinds: "Sequence[str] | None" = None,
                    seed=None, min_length: int | None = None, max_length: int | None = None,
-                   edges: bool = False, progress=None) -> list[Reject]:
+                   edges: bool = False, progress=None, cap: int = DEFAULT_STATE_CAP
+                   ) -> list[Reject]:
     """``n`` near-miss rejects, uniform by length, each with its kinds and nearest witness.
 
     With ``kinds`` None the texts are drawn from the whole near-miss language;
@@ -174,15 +178,16 @@ def sample_rejects(dfa: DFA, n: int, *, distance: int = 1, kinds: "Sequence[str]
     (``length_range``) that have strings, then a string uniformly at that
     length (``pfuzz.counting.tables``). ``edges`` draws from the range-edge languages (see
     the module docstring). ``progress``, if given, is called with the number
-    of rejects finished since its last call. Same seed, same output.
+    of rejects finished since its last call. ``cap`` is the state cap of every near-miss
+    automaton built. Same seed, same output.
     """
     if isinstance(n, bool) or not isinstance(n, int) or n < 0:
         raise ArgumentError(f"the number of rejects must be an integer >= 0, got {n!r}")
     distance = check_distance(distance)
     strata = [None] if kinds is None else [[k] for k in check_kinds(kinds)]
-    low, high = length_range(dfa, distance, kinds, min_length, max_length, edges=edges)
+    low, high = length_range(dfa, distance, kinds, min_length, max_length, edges=edges, cap=cap)
     rng = randomness.source(seed)
-    counters = [_counter(near_miss_dfa(dfa, distance, stratum, edges=edges))
+    counters = [_counter(near_miss_dfa(dfa, distance, stratum, edges=edges, cap=cap))
                 for stratum in strata]
     filled = [c for c in counters if c.lengths(high, low)]
     if not filled:
@@ -190,7 +195,7 @@ def sample_rejects(dfa: DFA, n: int, *, distance: int = 1, kinds: "Sequence[str]
     draws = [c.sample(share, min_length=low, max_length=high, seed=rng)
              for c, share in zip(filled, _shares(n, len(filled)))]
     texts = [batch[i] for i in range(max(map(len, draws))) for batch in draws if i < len(batch)]
-    rejects, rejecter = [], _Rejecter(dfa, distance)
+    rejects, rejecter = [], _Rejecter(dfa, distance, cap)
     for text in texts:
         rejects.append(rejecter.reject(text))
         if progress is not None and len(rejects) % _PROGRESS_STEP == 0:
@@ -205,11 +210,11 @@ _PROGRESS_STEP = 1024
 
 def length_range(dfa: DFA, distance: int = 1, kinds: "Sequence[str] | None" = None,
                  min_length: int | None = None, max_length: int | None = None, *,
-                 edges: bool = False) -> tuple[int, int]:
+                 edges: bool = False, cap: int = DEFAULT_STATE_CAP) -> tuple[int, int]:
     """The lengths ``sample_rejects`` draws from: the bounds given, else those of the
     near-miss language of all the kinds asked (``pfuzz.counting.tables`` defaults: its
     shortest and longest string, or ``UNBOUNDED_SPAN`` above the shortest)."""
-    whole = near_miss_dfa(dfa, distance, kinds, edges=edges)
+    whole = near_miss_dfa(dfa, distance, kinds, edges=edges, cap=cap)
     return _counter(whole).bounds(min_length, max_length)
 
 

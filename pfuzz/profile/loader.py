@@ -26,19 +26,18 @@ from __future__ import annotations
 import functools
 import hashlib
 import re
-import tomllib
 from dataclasses import dataclass
 from functools import cached_property
 from pathlib import Path
 
 from pfuzz.corpus import context as records
 from pfuzz.base.charset import DEFAULT_ALPHABET
-from pfuzz.automata.dfa import explore
+from pfuzz.automata.dfa import DEFAULT_STATE_CAP, explore
 from pfuzz.automata.minimise import minimise
-from pfuzz.errors import PatternError, ProfileError, StateLimitError, AlphabetError
+from pfuzz.errors import PatternError, ProfileError, StateLimitError, AlphabetError, shorten
 from pfuzz.base.constants import EDIT_KINDS
 from pfuzz.boundary.suite import DEFAULT_LIMIT as DEFAULT_BOUNDARY_LIMIT
-from pfuzz.profile.tomlcheck import TableReader, hint
+from pfuzz.profile.tomlcheck import TableReader, hint, read_toml
 
 DEFAULT_VALID = 100          #: valid strings per field
 DEFAULT_INVALID = 100        #: near-miss rejects per field
@@ -79,6 +78,7 @@ class Field:
     invalid: int = DEFAULT_INVALID
     distance: int = DEFAULT_DISTANCE
     edits: tuple[str, ...] = EDIT_KINDS
+    state_cap: int = DEFAULT_STATE_CAP      #: of every automaton built for the field
     boundary_limit: int = DEFAULT_BOUNDARY_LIMIT
 
     @property
@@ -89,7 +89,7 @@ class Field:
         return bits
 
     def compile_part(self, pattern: str):
-        return _compiled(pattern, self.alphabet, self.flag_bits)
+        return _compiled(pattern, self.alphabet, self.flag_bits, self.state_cap)
 
     @cached_property
     def _parts(self):
@@ -154,10 +154,10 @@ class Profile:
 
 
 @functools.lru_cache(maxsize=256)
-def _compiled(pattern: str, alphabet: str, flags: int):
+def _compiled(pattern: str, alphabet: str, flags: int, state_cap: int = DEFAULT_STATE_CAP):
     """Languages are immutable, so fields that share a pattern share one compilation."""
     from pfuzz.language import Language
-    return Language.compile(pattern, alphabet, flags)
+    return Language.compile(pattern, alphabet, flags, state_cap=state_cap)
 
 
 def _lengths_language(like, lo: int, hi: int | None):
@@ -169,32 +169,29 @@ def _lengths_language(like, lo: int, hi: int | None):
             return min(n + 1, lo)
         return n + 1 if n < hi else None
 
-    dfa = minimise(explore(0, step, lambda n: n >= lo, (alphabet,), alphabet))
+    dfa = minimise(explore(0, step, lambda n: n >= lo, (alphabet,), alphabet, like.state_cap))
     return like._wrap(dfa)
 
 
 # -- reading ---------------------------------------------------------------------
 
-def load_profile(path: "str | Path") -> Profile:
-    """Read and validate the profile at ``path``; raise ``ProfileError`` on any problem."""
+def load_profile(path: "str | Path", state_cap: int = DEFAULT_STATE_CAP) -> Profile:
+    """Read and validate the profile at ``path``; raise ``ProfileError`` on any problem.
+    ``state_cap`` bounds every automaton built for its fields."""
     path = Path(path)
     label = str(path)
     try:
         raw = path.read_bytes()
     except OSError as error:
         raise ProfileError(f"cannot read the profile: {error.strerror}", path=label) from None
-    return parse_profile(raw, label)
+    return parse_profile(raw, label, state_cap)
 
 
-def parse_profile(raw: bytes, label: str = "<profile>") -> Profile:
+def parse_profile(raw: bytes, label: str = "<profile>",
+                  state_cap: int = DEFAULT_STATE_CAP) -> Profile:
     """Validate profile bytes; ``label`` names the file in error messages."""
-    try:
-        data = tomllib.loads(raw.decode("utf-8"))
-    except UnicodeDecodeError as error:
-        raise ProfileError(f"not UTF-8 text (byte {error.start})", path=label) from None
-    except tomllib.TOMLDecodeError as error:
-        raise ProfileError(f"not valid TOML: {error}", path=label) from None
-    reader = _Reader(label)
+    data = read_toml(raw, label)
+    reader = _Reader(label, state_cap)
     reader.keys(data, TOP_KEYS, "")
     head = reader.table(data, "profile", "", required=True)
     reader.keys(head, PROFILE_KEYS, "[profile]")
@@ -212,6 +209,10 @@ class _Reader(TableReader):
     """The profile schema, read with typed access and errors that say where they are."""
 
     count_limit = MAX_COUNT
+
+    def __init__(self, label: str, state_cap: int = DEFAULT_STATE_CAP):
+        super().__init__(label)
+        self.state_cap = state_cap
 
     def name(self, table: dict, key: str, where: str) -> str:
         value = self.get(table, key, str, where, required=True)
@@ -254,6 +255,7 @@ class _Reader(TableReader):
             invalid=self.count(table, "invalid", where, DEFAULT_INVALID),
             distance=self.count(table, "distance", where, DEFAULT_DISTANCE, 1, MAX_DISTANCE),
             edits=self.choices(table, "edits", where, EDIT_KINDS, EDIT_KINDS),
+            state_cap=self.state_cap,
             boundary_limit=self.count(table, "boundary_limit", where, DEFAULT_BOUNDARY_LIMIT),
         )
         if field.min_length is not None and field.max_length is not None \
@@ -274,12 +276,13 @@ class _Reader(TableReader):
                 field.compile_part(pattern)
             except PatternError as error:
                 column = f" at {error.where()}" if error.colno is not None else ""
-                caret = error.caret() or f"  {pattern}"
-                self.fail(f"bad pattern {pattern!r}{column}: {error.message}", where, key, caret)
+                caret = error.caret() or f"  {shorten(pattern)}"
+                self.fail(f"bad pattern {shorten(repr(pattern))}{column}: {error.message}",
+                          where, key, caret)
             except AlphabetError as error:
                 self.fail(str(error), where, "alphabet")
             except StateLimitError as error:
-                self.fail(f"pattern {pattern!r}: {error}", where, key)
+                self.fail(f"pattern {shorten(repr(pattern))}: {error}", where, key)
 
     # -- record ----------------------------------------------------------------------
     def record(self, data: dict, fields: tuple[Field, ...]) -> Record | None:

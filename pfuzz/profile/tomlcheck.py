@@ -1,19 +1,98 @@
-"""Strict, typed reading of parsed TOML tables, with errors that say where they are.
+"""Strict, typed reading of TOML profiles, with errors that say where they are.
 
-``tomllib`` turns a file into dicts and lists; this module checks them: an
-unknown key is reported with the nearest known key (``difflib``'s
-Ratcliff/Obershelp ratio, cutoff 0.6), a value of the wrong type with its
-type and a short ``repr``, and every failure is a ``ProfileError`` that names
-the file, the table and the key. Booleans are never accepted as integers
-(``bool`` is a subclass of ``int`` in Python). ``pfuzz.profile.loader`` holds the
-schema itself.
+``read_toml`` turns the bytes of a file into dicts and lists with the standard
+library's ``tomllib``, and turns every way that can fail into a ``ProfileError``:
+bytes that are not UTF-8 (a UTF-16 or UTF-32 byte-order mark is named as such), a
+UTF-8 byte-order mark (accepted: it is an encoding signature, not content, and
+Windows editors write it), a decimal integer of more than 4,300 digits (Python's
+int-to-string limit, which ``tomllib`` trips), and values nested more than
+``MAX_NESTING`` deep (a profile needs four levels; ``tomllib`` recurses once per
+level and would run out of stack at a few hundred).
+
+``TableReader`` then checks the tables: an unknown key is reported with the nearest
+known key (``difflib``'s Ratcliff/Obershelp ratio, cutoff 0.6), a value of the
+wrong type with its type and a short ``repr``, and every failure is a
+``ProfileError`` that names the file, the table and the key. Booleans are never
+accepted as integers (``bool`` is a subclass of ``int`` in Python). Numbers too
+long to print (a hexadecimal integer has no digit limit) are described by their
+length. ``pfuzz.profile.loader`` holds the schema itself.
 """
 
 from __future__ import annotations
 
+import codecs
 import difflib
+import tomllib
 
-from pfuzz.errors import ProfileError
+from pfuzz.errors import ProfileError, shorten
+
+__all__ = ["MAX_NESTING", "RENAMED_KEYS", "TableReader", "hint", "number_text", "read_toml"]
+
+#: Deepest nesting of arrays and tables a profile may use, the document's own table counting
+#: as one (a [[field]]'s require list is at level four).
+MAX_NESTING = 32
+#: Byte-order marks of encodings a profile may not use, longest first.
+OTHER_ENCODINGS = ((codecs.BOM_UTF32_LE, "UTF-32"), (codecs.BOM_UTF32_BE, "UTF-32"),
+                   (codecs.BOM_UTF16_LE, "UTF-16"), (codecs.BOM_UTF16_BE, "UTF-16"))
+#: Binary digits past which an integer is described by its length, not printed
+#: (below Python's 4,300-digit int-to-string limit).
+PRINTABLE_BITS = 4000 * 3
+
+
+def read_toml(raw: bytes, label: str) -> dict:
+    """The tables of the TOML document ``raw``; ``ProfileError`` (naming ``label``) if it
+    is not one that a profile can be."""
+    for mark, encoding in OTHER_ENCODINGS:
+        if raw.startswith(mark):
+            raise ProfileError(f"is {encoding} text (it starts with a {encoding} byte-order "
+                               "mark); save it as UTF-8", path=label)
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as error:
+        raise ProfileError(f"not UTF-8 text (byte {error.start})", path=label) from None
+    text = text.removeprefix("\ufeff")        # the UTF-8 byte-order mark: a signature only
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as error:
+        raise ProfileError(f"not valid TOML: {shorten(str(error), 200)}", path=label) from None
+    except RecursionError:
+        raise _too_deep(label) from None
+    except ValueError as error:
+        if "digits" not in str(error):
+            raise ProfileError(f"not valid TOML: {shorten(str(error), 200)}", path=label) from None
+        raise ProfileError("holds a decimal integer of more than 4,300 digits (the most Python "
+                           "reads); no profile key takes one", path=label) from None
+    if _depth(data) > MAX_NESTING:
+        raise _too_deep(label)
+    return data
+
+
+def _too_deep(label: str) -> ProfileError:
+    return ProfileError(f"arrays and tables nest more than {MAX_NESTING} levels deep (the "
+                        "document counting as one); a profile needs four", path=label)
+
+
+def _depth(value) -> int:
+    """Deepest nesting of lists and dicts in ``value`` (iterative: no recursion limit)."""
+    deepest, stack = 0, [(value, 0)]
+    while stack:
+        item, depth = stack.pop()
+        if isinstance(item, dict):
+            item = list(item.values())
+        if isinstance(item, list):
+            deepest = max(deepest, depth + 1)
+            if deepest > MAX_NESTING:
+                return deepest
+            stack.extend((child, depth + 1) for child in item)
+    return deepest
+
+
+def number_text(value: int) -> str:
+    """``value`` with thousands separators, or its length when it is too long to print."""
+    if value.bit_length() <= PRINTABLE_BITS:
+        return f"{value:,}"
+    digits = int(value.bit_length() * 0.30103) + 1
+    return f"{'-' if value < 0 else ''}a number of about {digits:,} digits"
 
 
 #: Keys of earlier profile versions, with what replaced them.
@@ -58,7 +137,7 @@ class TableReader:
         high = self.count_limit if high is None else high
         if value is not None and (value < low or (high is not None and value > high)):
             limit = f"between {low:,} and {high:,}" if high is not None else f"at least {low:,}"
-            self.fail(f"must be {limit}, not {value:,}", where, key)
+            self.fail(f"must be {limit}, not {number_text(value)}", where, key)
         return value
 
     def strings(self, table: dict, key: str, where: str) -> tuple[str, ...]:
@@ -96,6 +175,10 @@ _KIND_NAMES = {str: "a string", int: "an integer", list: "a list", dict: "a tabl
 def _describe(value) -> str:
     kinds = {bool: "a boolean", int: "an integer", float: "a number", str: "a string",
              list: "a list", dict: "a table"}
-    shown = repr(value)
-    shown = shown if len(shown) <= 40 else shown[:37] + "..."
+    if isinstance(value, int) and not isinstance(value, bool):
+        shown = number_text(value)
+    elif isinstance(value, (list, dict)):
+        shown = f"{len(value):,} item{'s' if len(value) != 1 else ''}"
+    else:
+        shown = shorten(repr(value), 40)
     return f"{kinds.get(type(value), 'a ' + type(value).__name__)} ({shown})"
