@@ -167,36 +167,31 @@ def explore(
     state. Raises ``StateLimitError`` past ``cap`` states.
     """
     classes = tuple(classes)
+    k = len(classes)
     number = {start: 0}
     configs = [start]
-    rows: list[tuple[int, ...]] = []
-    accepting = set()
-    k = len(classes)
-    i = 0
-    while i < len(configs):
-        config = configs[i]
-        if is_accepting(config):
-            accepting.add(i)
-        row = []
-        for c in range(k):
+    cells: list[int] = []  # the table, row after row
+    add, find, letters = cells.append, number.get, range(k)
+    for config in configs:  # grows while it is read: breadth-first order
+        for c in letters:
             nxt = step(config, c)
             if nxt is None:
-                row.append(DEAD)
+                add(DEAD)
                 continue
-            j = number.get(nxt)
+            j = find(nxt)
             if j is None:
-                j = len(configs)
+                j = number[nxt] = len(configs)
+                configs.append(nxt)
                 if j >= cap:
                     raise StateLimitError(
                         f"the automaton needs more than {cap:,} states (the state cap); "
                         "simplify the pattern or raise the cap"
                     )
-                number[nxt] = j
-                configs.append(nxt)
-            row.append(j)
-        rows.append(tuple(row))
-        i += 1
-    return DFA(alphabet, classes, tuple(rows), frozenset(accepting))
+            add(j)
+    accepting = frozenset(i for i, config in enumerate(configs) if is_accepting(config))
+    columns = [iter(cells)] * k
+    table = tuple(zip(*columns)) if k else ((),) * len(configs)
+    return DFA(alphabet, classes, table, accepting)
 
 
 def empty(alphabet: CharSet) -> DFA:

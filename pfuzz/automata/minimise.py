@@ -14,6 +14,9 @@ classes in order of their smallest character), so equal languages over equal
 alphabets give equal values.
 
 Cost: Moore's refinement is O(rounds × n × k) numpy work, Hopcroft's O(k n log n) pure Python.
+From ``ARRAY_STATES`` states on, ``pfuzz.automata.refinement`` does the same job on arrays
+(Moore's rounds restricted to the states whose successors changed block) and gives the
+same canonical DFA.
 """
 
 from __future__ import annotations
@@ -146,8 +149,15 @@ MOORE_BUDGET = 40_000_000
 MOORE_ROUNDS = 64
 
 
+#: From this many states on, minimisation runs on arrays (``pfuzz.automata.refinement``).
+ARRAY_STATES = 2_000
+
+
 def minimise(dfa: DFA) -> DFA:
     """The canonical minimal partial DFA of the same language."""
+    if dfa.n_states >= ARRAY_STATES and dfa.accepting and dfa.classes:
+        from pfuzz.automata.refinement import minimise_arrays
+        return minimise_arrays(dfa)
     dfa = trim(dfa)
     if not dfa.accepting:
         return empty(dfa.alphabet)

@@ -8,12 +8,12 @@ made from whole 64-bit words by rejection, so they are exactly uniform and do
 not depend on floating point. Nothing here relies on hash order.
 
 Seeds are non-negative integers; ``None`` means "seed from the OS", which the
-command line never uses (it defaults to seed 0).
+command line never uses (it defaults to seed 0). numpy is imported, and the
+generator made, on the first draw, so that commands which draw nothing start
+without it.
 """
 
 from __future__ import annotations
-
-import numpy as np
 
 from pfuzz.errors import ArgumentError
 
@@ -27,14 +27,23 @@ class RandomSource:
         if seed is not None and (not isinstance(seed, int) or seed < 0):
             raise ArgumentError(f"seed must be a non-negative integer, got {seed!r}")
         self.seed = seed
-        self.numpy = np.random.Generator(np.random.PCG64(seed))
+        self._numpy = None
+
+    @property
+    def numpy(self):
+        """The numpy ``Generator`` (PCG64) every draw comes from, made on first use."""
+        generator = self._numpy
+        if generator is None:
+            import numpy as np
+            generator = self._numpy = np.random.Generator(np.random.PCG64(self.seed))
+        return generator
 
     def bits(self, k: int) -> int:
         """A uniform integer in [0, 2**k)."""
         if k <= 0:
             return 0
         words = -(-k // WORD_BITS)
-        raw = self.numpy.integers(0, 2**64, size=words, dtype=np.uint64, endpoint=False)
+        raw = self.numpy.integers(0, 2**64, size=words, dtype="uint64", endpoint=False)
         value = 0
         for w in raw.tolist():
             value = (value << WORD_BITS) | int(w)

@@ -2,8 +2,10 @@
 
 Each pattern is compiled once to warm the character tables and imports, then
 timed as the best of a few runs in CPU time (``time.process_time``, so that
-other processes on the machine disturb the figures less). ``--quick`` drops the
-k = 16 member of the ``(a|b)*a(a|b){k}`` family and runs each pattern once.
+other processes on the machine disturb the figures less); ``--quick`` runs each
+pattern once. The large automata (``LARGE``: the 131,072-state member of the
+``(a|b)*a(a|b){k}`` family, the hostname rule, and k = 30, which must stop at the
+state cap) are compiled once each in a fresh process, with its peak memory.
 """
 
 from __future__ import annotations
@@ -12,6 +14,8 @@ import time
 
 from pfuzz.automata.construction.compiler import compile_dfa
 from pfuzz.syntax.alphabet import resolve_alphabet
+
+from ._child import measure
 
 PASSWORD = r"^(?=.*\d)(?=.*[a-z])(?=.*[A-Z])(?=.*[!#$%&*+\-.?@^_~])(?=.{8,64}$).*$"
 PASSWORD_5 = r"^(?=.*\d)(?=.*[a-z])(?=.*[A-Z])(?=.*[!#$%&*+\-.?@^_~])(?!.* )(?=.{8,64}$).*$"
@@ -41,15 +45,50 @@ def _best_ms(pattern: str, alphabet, runs: int) -> tuple[float, object]:
     return best * 1000, dfa
 
 
+#: Large automata, each in a fresh process so that its peak memory is its own:
+#: (label, pattern, alphabet). The last one must stop at the state cap.
+LARGE = [
+    ("(a|b)*a(a|b){16}", FAMILY % 16, "[ab]"),
+    ("hostname (RFC 1123, 253 total)", HOSTNAME, "printable"),
+    ("(a|b)*a(a|b){30}: state cap", FAMILY % 30, "[ab]"),
+]
+
+_LARGE = """
+from pfuzz.automata.construction.compiler import compile_dfa
+from pfuzz.errors import StateLimitError
+from pfuzz.syntax.alphabet import resolve_alphabet
+alphabet = resolve_alphabet(sys.argv[2])
+start = time.process_time()
+try:
+    result["states"] = compile_dfa(sys.argv[1], alphabet).n_states
+except StateLimitError:
+    result["states"] = "cap"
+result["compile_s"] = time.process_time() - start
+"""
+
+
+def large_rows(quick: bool) -> list[dict]:
+    """Compile CPU time of the large automata, peak memory of the whole process beside it."""
+    rows = []
+    for label, pattern, alphabet in LARGE:
+        figures = measure(_LARGE, pattern, alphabet)
+        rows.append({"pattern": label, "alphabet": alphabet, "states": figures["states"],
+                     "ms": f"{figures['compile_s'] * 1000:.1f}",
+                     "peak_rss_mb": f"{figures['peak_rss_mb']:.0f}"})
+    return rows
+
+
 def run(quick: bool) -> list[dict]:
-    cases = list(PATTERNS) + [(FAMILY % k, "[ab]") for k in (8, 12, 16)]
-    if quick:
-        cases = cases[:-1]
+    return small_rows(quick) + large_rows(quick)
+
+
+def small_rows(quick: bool) -> list[dict]:
+    cases = list(PATTERNS) + [(FAMILY % k, "[ab]") for k in (8, 12)]
     rows = []
     for pattern, alphabet_name in cases:
         alphabet = resolve_alphabet(alphabet_name)
         compile_dfa(pattern, alphabet)
-        runs = 1 if quick or "{16}" in pattern else 3
+        runs = 1 if quick else 3
         ms, dfa = _best_ms(pattern, alphabet, runs)
         rows.append({"pattern": pattern if len(pattern) <= 48 else pattern[:45] + "...",
                      "alphabet": alphabet_name, "states": dfa.n_states,

@@ -19,10 +19,14 @@ from __future__ import annotations
 
 import time
 
+import statistics
+
 from pfuzz.nearmiss import rejects as nearmiss
 from pfuzz.automata.construction.compiler import compile_dfa
 from pfuzz.syntax.alphabet import resolve_alphabet
-from pfuzz.nearmiss.witness import nearest
+from pfuzz.nearmiss.witness import explain, nearest
+
+from ._limits import measure_limited
 
 DATE = (r"(?:(?:[0-9]{2}(?:0[48]|[2468][048]|[13579][26])|(?:0[48]|[2468][048]|[13579][26])00)"
         r"-02-29|[0-9]{4}-(?:(?:0[13578]|1[02])-(?:0[1-9]|[12][0-9]|3[01])"
@@ -71,7 +75,63 @@ def _rejects(dfa, n: int) -> dict:
             "us_per_explain": f"{alone / n * 1e6:.0f}"}
 
 
+#: Local and domain parts at their RFC 5321 limits (64 and 63 characters): a
+#: distance-1 near-miss DFA of about 20,000 states.
+EMAIL_LIMITS = r"[a-z0-9._%+-]{1,64}@[a-z0-9-]{1,63}\.[a-z]{2,}"
+#: A 60-character e-mail text with its separator doubled (one edit from valid).
+EMAIL_TEXT = "first.last+news@@mail-relay-district-seven-archive.examp.org"
+
+_REJECTS = """
+import pfuzz
+lang = pfuzz.compile(sys.argv[1])
+start = time.process_time()
+result["rejects"] = len(lang.rejects(int(sys.argv[2]), seed=1))
+result["rejects_s"] = time.process_time() - start
+"""
+
+#: (label, pattern, rejects drawn), each in a fresh process under a 3 GiB address-space limit.
+LARGE = [
+    ("e-mail at RFC 5321 limits: rejects(10^5)", EMAIL_LIMITS, 100_000),
+    ("[a-z]{1,4000}: rejects(200)", "[a-z]{1,4000}", 200),
+]
+
+
+def large_rows(quick: bool) -> list[dict]:
+    """Whole ``rejects`` calls (near-miss DFA, tables, draws, witnesses): CPU time and peak memory."""
+    rows = []
+    for label, pattern, n in LARGE:
+        if quick and n > 10_000:
+            n, label = 10_000, label.replace("10^5", "10^4")
+        figures = measure_limited(_REJECTS, pattern, str(n))
+        rows.append({"pattern": label, "rejects_s": (f"{figures['rejects_s']:.2f}"
+                                                     if "rejects_s" in figures else
+                                                     f"({figures['cpu_s']:.1f} cpu)"),
+                     "peak_rss_mb": f"{figures['peak_rss_mb']:.0f}",
+                     "outcome": figures["outcome"]})
+    return rows
+
+
+def explain_row(quick: bool) -> dict:
+    """Microseconds per ``explain`` of a 60-character e-mail text (median of batches)."""
+    dfa = compile_dfa(EMAIL, resolve_alphabet("printable"))
+    assert len(EMAIL_TEXT) == 60
+    explain(dfa, EMAIL_TEXT)
+    batch, batches = 2_000, 3 if quick else 9
+    times = []
+    for _ in range(batches):
+        start = time.process_time()
+        for _ in range(batch):
+            explain(dfa, EMAIL_TEXT)
+        times.append((time.process_time() - start) / batch)
+    return {"pattern": "e-mail-like: explain a 60-character text",
+            "us_per_explain": f"{statistics.median(times) * 1e6:.1f}"}
+
+
 def run(quick: bool) -> list[dict]:
+    return build_rows(quick) + large_rows(quick) + [explain_row(quick)]
+
+
+def build_rows(quick: bool) -> list[dict]:
     alphabet = resolve_alphabet("printable")
     runs = 1 if quick else 3
     n = 10_000 if quick else 100_000

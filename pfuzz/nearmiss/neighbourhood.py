@@ -73,7 +73,18 @@ from __future__ import annotations
 from pfuzz.base.charset import CharSet, partition
 from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA, explore, transitions
 from pfuzz.automata.minimise import minimise
-from pfuzz.automata.simulation import beaten, simulation
+
+
+def simulation(*args, **options):
+    """``pfuzz.automata.simulation.simulation``, imported on first use (it needs numpy)."""
+    from pfuzz.automata import simulation as module
+    return module.simulation(*args, **options)
+
+
+def beaten(sim):
+    """``pfuzz.automata.simulation.beaten``, imported on first use (it needs numpy)."""
+    from pfuzz.automata import simulation as module
+    return module.beaten(sim)
 
 #: The edit kinds, as edits that turn a valid string into a reject.
 

@@ -1,0 +1,63 @@
+"""Cold start: the whole process of short commands, beside ``python -c "import click"``.
+
+Each row runs a fresh interpreter the way a user runs the command (the console
+script is ``pfuzz.cli:main``), several times, and gives the median wall time of
+the whole process (interpreter start included) and the median peak resident set
+size (``VmHWM``, read at exit). Commands that need no arrays should not import
+numpy; the ``numpy`` column says whether the process did. Target: ``info`` and
+``explain`` within twice the time of importing click alone.
+"""
+
+from __future__ import annotations
+
+import statistics
+import subprocess
+import sys
+import time
+
+from ._child import ROOT
+
+_PEAK = """
+import atexit, sys
+def _report():
+    peak = 0
+    with open("/proc/self/status") as status:
+        for line in status:
+            if line.startswith("VmHWM:"):
+                peak = int(line.split()[1])
+    sys.stderr.write(f"\\n@peak {peak} {int('numpy' in sys.modules)}\\n")
+atexit.register(_report)
+"""
+
+CASES = [
+    ("python -c 'import click'", "import click"),
+    ("python -c 'import pfuzz'", "import pfuzz"),
+    ("pfuzz info '[a-z]+'", "from pfuzz.cli import main; main(['info', '[a-z]+'])"),
+    ("pfuzz explain '[0-9]{4}' 12a4",
+     "from pfuzz.cli import main; main(['explain', '[0-9]{4}', '12a4'])"),
+]
+
+
+def _once(code: str) -> tuple[float, float, bool]:
+    start = time.perf_counter()
+    done = subprocess.run([sys.executable, "-c", _PEAK + code], capture_output=True, text=True,
+                          cwd=ROOT, check=False)
+    seconds = time.perf_counter() - start
+    tail = done.stderr.rsplit("@peak", 1)
+    if len(tail) < 2:
+        raise RuntimeError(f"startup case failed:\n{done.stderr}")
+    peak_kb, numpy = tail[1].split()
+    return seconds, int(peak_kb) / 1024, numpy == "1"
+
+
+def run(quick: bool) -> list[dict]:
+    repeats = 3 if quick else 9
+    rows = []
+    for label, code in CASES:
+        runs = [_once(code) for _ in range(repeats)]
+        rows.append({"case": label, "runs": repeats,
+                     "median_ms": f"{statistics.median(r[0] for r in runs) * 1000:.0f}",
+                     "best_ms": f"{min(r[0] for r in runs) * 1000:.0f}",
+                     "peak_rss_mb": f"{statistics.median(r[1] for r in runs):.0f}",
+                     "numpy": "yes" if runs[-1][2] else "no"})
+    return rows
