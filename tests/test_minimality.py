@@ -108,3 +108,57 @@ def test_last_letters_family_over_printable(k):
     dfa = compile_tree(family(k), ALPHABETS["printable"], resolve=resolve)
     assert dfa.n_states == 2 ** (k + 1)
     assert len(dfa.classes) == 3  # a, b and every other character
+
+
+# -- the array path (pfuzz.automata.refinement) against the small path and the naive check --
+
+random_dfas = st.integers(1, 40).flatmap(lambda n: st.tuples(
+    st.just(n),
+    st.sampled_from([("a", "b", "c"), ("ab", "c"), ("abc",), ("a", "bc")]),
+    st.lists(st.integers(-1, n - 1), min_size=3 * n, max_size=3 * n),
+    st.sets(st.integers(0, n - 1)),
+))
+
+
+def build_random(n, labels, cells, accepting):
+    from pfuzz.automata.dfa import DFA
+
+    classes = tuple(CharSet.from_chars(label) for label in labels)
+    k = len(classes)
+    table = tuple(tuple(cells[s * k:(s + 1) * k]) for s in range(n))
+    return DFA(CharSet.from_chars("abc"), classes, table, frozenset(accepting))
+
+
+def both_paths(dfa, monkeypatch):
+    from pfuzz.automata import minimise as module
+
+    monkeypatch.setattr(module, "ARRAY_STATES", 1)
+    arrays = module.minimise(dfa)
+    monkeypatch.setattr(module, "ARRAY_STATES", 10**9)
+    return arrays, module.minimise(dfa)
+
+
+@settings(max_examples=300, deadline=None, database=None)
+@given(random_dfas)
+def test_array_minimisation_equals_the_small_path_on_random_automata(parts):
+    from itertools import product
+
+    with pytest.MonkeyPatch.context() as monkeypatch:
+        dfa = build_random(*parts)
+        arrays, small = both_paths(dfa, monkeypatch)
+    assert arrays == small
+    assert_minimal(arrays)
+    for length in range(5):  # the language itself, string by string
+        for text in map("".join, product("abc", repeat=length)):
+            assert arrays.accepts(text) == dfa.accepts(text)
+
+
+def test_array_minimisation_of_wide_and_long_automata(monkeypatch):
+    dfa = compile_tree(family(11), CharSet.from_chars("ab"), resolve=resolve)  # 4,096 states
+    assert dfa.n_states == 2 ** 12
+    assert_minimal(dfa)
+    letters = Chars(CharSet.from_chars("ab"))
+    chain = compile_tree(Repeat(letters, 1, 2_100), CharSet.from_chars("ab"), resolve=resolve)
+    assert chain.n_states == 2_101  # one state per length read (common practice)
+    arrays, small = both_paths(chain, monkeypatch)
+    assert arrays == small == chain
