@@ -206,3 +206,38 @@ def test_nothing_in_a_profile_is_executed(tmp_path):
     # A provider naming a Python expression is a name that is not allow-listed, nothing more.
     text = RECORD.replace('provider = "name"', 'provider = "__import__(\'os\').getcwd"')
     assert "is not an allowed context provider" in str(error_of(tmp_path, text))
+
+
+# -- shipped profiles: a PROFILE argument is a path or a shipped name -------------------------
+
+PROFILES = Path(__file__).resolve().parent.parent / "profiles"
+
+
+def test_every_file_of_the_profiles_folder_is_shipped_under_its_name():
+    from pfuzz.profile import shipped
+
+    # reference: the repository's top-level profiles/ folder, listed here
+    assert shipped.names() == sorted(p.stem for p in PROFILES.glob("*.toml"))
+    for path in PROFILES.glob("*.toml"):
+        loaded = load_profile(path.stem)
+        assert loaded.sha256 == hashlib.sha256(path.read_bytes()).hexdigest()
+
+
+def test_an_existing_file_wins_over_a_shipped_name(tmp_path, monkeypatch):
+    write(tmp_path, BASE, name="ipv4")
+    monkeypatch.chdir(tmp_path)
+    assert load_profile("ipv4").title == "Test"
+    assert load_profile(Path("ipv4")).fields[0].name == "code"
+
+
+@pytest.mark.parametrize("spec", ["ipv5", "ipv4.toml", "somewhere/ipv4", ""])
+def test_only_bare_shipped_names_are_looked_up(tmp_path, monkeypatch, spec):
+    # a missing path stays a missing path; an unknown bare name lists the shipped ones
+    monkeypatch.chdir(tmp_path)
+    with pytest.raises(ProfileError) as caught:
+        load_profile(spec)
+    message = str(caught.value)
+    if spec == "ipv5":
+        assert "no shipped profile has this name" in message and "ipv4, iso-date" in message
+    else:
+        assert "shipped" not in message

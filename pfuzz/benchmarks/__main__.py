@@ -1,12 +1,13 @@
 """Run every benchmark module (or those named) and print their figures.
 
-Usage: ``python -m pfuzz.benchmarks [compile sampling nearmiss corpus ...] [--quick]``.
+Usage: ``python -m pfuzz.benchmarks [SECTION ...] [--quick]`` (``--help`` lists the sections).
 Each module in this package that defines ``run(quick: bool) -> list[dict]``
 is a section; rows are printed as an aligned table.
 """
 
 from __future__ import annotations
 
+import argparse
 import importlib
 import pkgutil
 import sys
@@ -30,17 +31,37 @@ def _print_table(title: str, rows: list[dict]) -> None:
         print("  ".join(v.ljust(w) for v, w in zip(r, widths)))
 
 
-def main(argv: list[str]) -> int:
-    quick = "--quick" in argv
-    wanted = [a for a in argv if not a.startswith("-")]
+def sections() -> list[str]:
+    """The benchmark modules of this package, by name."""
     here = Path(__file__).parent
-    names = sorted(m.name for m in pkgutil.iter_modules([str(here)]) if not m.name.startswith("_"))
+    return sorted(m.name for m in pkgutil.iter_modules([str(here)]) if not m.name.startswith("_"))
+
+
+def _parser(names: list[str]) -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog="python -m pfuzz.benchmarks",
+        description="Speed and memory figures of pfuzz (not tests): one table per section, "
+                    "every section unless some are named. Runs from any directory.",
+        epilog="sections: " + ", ".join(names))
+    parser.add_argument("names", nargs="*", metavar="SECTION", help="sections to run")
+    parser.add_argument("--quick", action="store_true", help="smaller sizes, fewer repeats")
+    return parser
+
+
+def main(argv: list[str]) -> int:
+    names = sections()
+    options = _parser(names).parse_args(argv)
+    unknown = sorted(set(options.names) - set(names))
+    if unknown:
+        print(f"unknown section(s): {', '.join(unknown)}; choose from {', '.join(names)}",
+              file=sys.stderr)
+        return 2
     for name in names:
-        if wanted and name not in wanted:
+        if options.names and name not in options.names:
             continue
         module = importlib.import_module(f"{__package__}.{name}")
         if hasattr(module, "run"):
-            _print_table(name, module.run(quick))
+            _print_table(name, module.run(options.quick))
     return 0
 
 

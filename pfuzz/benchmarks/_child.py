@@ -15,7 +15,9 @@ import subprocess
 import sys
 from pathlib import Path
 
-ROOT = Path(__file__).resolve().parents[2]  # the project checkout
+#: The folder that holds the pfuzz package being measured (a checkout or site-packages).
+#: Child processes start there, so they import this same pfuzz from any directory.
+ROOT = Path(__file__).resolve().parents[2]
 
 _PRELUDE = """
 import json, resource, sys, time
@@ -42,7 +44,7 @@ print(json.dumps(result))
 
 def measure(body: str, *args: str) -> dict:
     """Run ``body`` (Python source that may fill the dict ``result`` and read ``sys.argv``)
-    in a fresh interpreter started in the project root; its figures plus ``result``."""
+    in a fresh interpreter started in ``ROOT``; its figures plus ``result``."""
     code = _PRELUDE + body + _REPORT
     done = subprocess.run([sys.executable, "-c", code, *args], capture_output=True, text=True,
                           cwd=ROOT, check=False)

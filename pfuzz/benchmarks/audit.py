@@ -5,7 +5,7 @@ made through the library (``pfuzz.compile`` over the default alphabet, then
 ``pfuzz.audit.run.run_audit`` with the default ``Settings``: the whole boundary
 suite, hostile variants, case flips, 1,000 near-miss rejects and 1,000 valid
 strings), against a fixture validator of ``tests/fixtures/validators`` (each
-with its deliberate bug) and against a dotted-quad check written with the
+with its deliberate bug; run from a checkout only) and against a dotted-quad check written with the
 standard library's ``ipaddress`` (put in a temporary directory). Each case runs in a fresh Python process
 (``pfuzz.benchmarks._child``), so its peak resident set size is its own; the
 ``imports only`` row is the interpreter with ``pfuzz.audit.run`` loaded, the floor
@@ -65,7 +65,7 @@ def _row(label: str, target: str, figures: dict) -> dict:
 def run(quick: bool) -> list[dict]:
     size = "100" if quick else "default"
     rows = [_row("imports only", "", measure(_IMPORTS))]
-    for pattern, function in CASES:
+    for pattern, function in CASES if VALIDATORS.is_dir() else ():   # fixtures: a checkout only
         figures = measure(_AUDIT, pattern, function, str(VALIDATORS), size)
         rows.append(_row(pattern, function, figures))
     with tempfile.TemporaryDirectory() as tmp:

@@ -33,12 +33,11 @@ from pfuzz.audit.hostile import HOSTILE_CHARACTERS
 from pfuzz.audit.run import DEFAULT_REJECT_ALPHABET, audit_alphabet
 from pfuzz.automata.dfa import transitions
 from pfuzz.boundary.suite import suite
+from pfuzz.profile import shipped
 from pfuzz.profile.loader import load_profile
 
-from ._child import ROOT
-
-PROFILES = ROOT / "profiles"
-POLICY = PROFILES / "password-policy.toml"
+PROFILES = shipped.folder()
+POLICY = shipped.path_of("password-policy")
 
 REALISTIC = [
     (r"[A-Z]{2}-[0-9]{4}", "printable"),

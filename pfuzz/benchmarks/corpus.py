@@ -15,8 +15,11 @@ from __future__ import annotations
 import tempfile
 from pathlib import Path
 
-from ._child import ROOT, measure
-DEMO = ROOT / "profiles" / "demo.toml"
+from pfuzz.profile import shipped
+
+from ._child import measure
+
+DEMO = shipped.path_of("demo")
 
 LARGE_FIELDS = [
     ("date", r"(19[0-9]{2}|20[0-9]{2})-(0[1-9]|1[0-2])-(0[1-9]|1[0-9]|2[0-8])"),

@@ -67,6 +67,8 @@ def audit(profile, pattern, pattern_file, field, python_target, command, regex, 
           no_boundary, boundary_limit, no_hostile, no_case_flip, timeout, seed, show, fmt, out):
     """Find the strings a validator gets wrong, against a PROFILE field or a --pattern.
 
+    PROFILE is a TOML file or the name of a shipped profile (pfuzz profiles lists them).
+
     Cases: the whole boundary suite, hostile near-misses (a trailing newline,
     tabs, CRs, spaces, other scripts' digits, full-width letters, no-break and
     zero-width spaces), case flips, near-miss rejects over a wider alphabet,

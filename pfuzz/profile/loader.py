@@ -37,6 +37,7 @@ from pfuzz.automata.minimise import minimise
 from pfuzz.errors import PatternError, ProfileError, StateLimitError, AlphabetError, shorten
 from pfuzz.base.constants import EDIT_KINDS
 from pfuzz.boundary.suite import DEFAULT_LIMIT as DEFAULT_BOUNDARY_LIMIT
+from pfuzz.profile import shipped
 from pfuzz.profile.tomlcheck import TableReader, hint, read_toml
 
 DEFAULT_VALID = 100          #: valid strings per field
@@ -176,9 +177,10 @@ def _lengths_language(like, lo: int, hi: int | None):
 # -- reading ---------------------------------------------------------------------
 
 def load_profile(path: "str | Path", state_cap: int = DEFAULT_STATE_CAP) -> Profile:
-    """Read and validate the profile at ``path``; raise ``ProfileError`` on any problem.
-    ``state_cap`` bounds every automaton built for its fields."""
-    path = Path(path)
+    """Read and validate the profile at ``path`` (or the shipped profile of that bare name,
+    ``pfuzz.profile.shipped``); raise ``ProfileError`` on any problem. ``state_cap`` bounds
+    every automaton built for its fields."""
+    path = shipped.resolve(path)
     label = str(path)
     try:
         raw = path.read_bytes()
