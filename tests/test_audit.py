@@ -14,6 +14,7 @@ from pathlib import Path
 import pytest
 
 import pfuzz
+from pfuzz.audit.learned import LearningSettings
 from pfuzz.audit.run import CATEGORY_ORDER, Settings, audit_alphabet, build_cases, run_audit, stages
 from pfuzz.errors import EmptyLanguageError
 from pfuzz.audit.hostile import HOSTILE_CHARACTERS, HOSTILE_KINDS, case_flips, hostile_variants
@@ -22,7 +23,9 @@ from pfuzz.nearmiss.edits import apply_edits
 
 FIXTURES = str(Path(__file__).parent / "fixtures" / "validators")
 TICKET = r"[A-Z]{2}-[0-9]{4}"
-SMALL = Settings(valid=150, rejects=200)
+NO_MODEL = LearningSettings(enabled=False)
+#: The cases alone (the learned model has tests of its own below).
+SMALL = Settings(valid=150, rejects=200, learning=NO_MODEL)
 
 
 def audit(pattern: str, function: str, alphabet: str = "printable", settings: Settings = SMALL):
@@ -202,3 +205,137 @@ def test_each_kind_shows_its_shortest_failure_first():
     assert hostile[1].text == newline[0] == min(newline, key=lambda t: (len(t), t))
     # 'AA-0000\n' itself is found first by the boundary suite (an exit after a valid string)
     assert any(f.case.text == "AA-0000\n" and f.case.category == "exit" for f in report.findings)
+
+
+# -- exceptions, evidence, groups and the learned model ---------------------------------------
+
+def test_an_exception_that_is_not_a_reject_is_a_finding_even_on_invalid_input():
+    # No case is shorter than 6 characters; the learned model's queries reach the short ones.
+    report = audit(TICKET, "planted:ticket_index_error", settings=Settings(valid=150, rejects=200))
+    assert not report.agrees and report.findings == []
+    (group,) = report.raised.groups()
+    assert (group.type, group.unexpected, group.message) == ("IndexError", True,
+                                                             "string index out of range")
+    # The planted bug reads text[2] first: exactly the strings shorter than 3 raise (hand-written
+    # rule), and re rejects every one of them.
+    assert group.count == group.spec_rejects > 0
+    assert group.shortest[0] == "" and all(len(t) < 3 for t in group.shortest)
+    assert list(group.shortest) == sorted(group.shortest, key=lambda t: (len(t), t))
+    assert not any(re.fullmatch(TICKET, t) for t in group.shortest)
+    assert "raised an exception that is not a reject on" in report.evidence.sentence
+    assert report.learned.model.equals_specification  # the bug is an exception, not a verdict
+
+
+def test_value_errors_and_named_exceptions_are_rejects():
+    report = audit(TICKET, "hostile:by_value_error")
+    assert report.agrees and [g.type for g in report.raised.groups()] == ["ValueError"]
+    assert not report.raised.groups()[0].unexpected
+    spec = pfuzz.compile(TICKET)
+    plain = run_audit(spec, PythonTarget("hostile:by_framework_error", directory=FIXTURES), SMALL)
+    assert not plain.agrees and plain.raised.groups()[0].type == "hostile.TicketRejected"
+    named = run_audit(spec, PythonTarget("hostile:by_framework_error", directory=FIXTURES,
+                                         reject_on=["hostile.TicketRejected"]), SMALL)
+    assert named.agrees and not named.raised.unexpected
+
+
+def test_evidence_of_cases_alone_counts_them_and_is_not_a_proof():
+    report = audit(TICKET, "tickets:correct")
+    deterministic, sampled = report.case_counts()
+    assert deterministic + sampled == len(report.cases) and sampled >= 150 + 200 - 10
+    assert report.evidence.basis == "cases"
+    assert report.evidence.sentence == (f"agreement on {deterministic:,} deterministic and "
+                                        f"{sampled:,} sampled cases (not a proof: strings not tried "
+                                        "may still be judged differently)")
+    wrong = audit(TICKET, "tickets:missing_anchor").evidence
+    assert wrong.basis == "cases" and "disagreements found among" in wrong.sentence
+
+
+def test_deterministic_cases_do_not_depend_on_the_seed():
+    spec = pfuzz.compile("[a-z]{2,5}[0-9]?")
+    first, _ = build_cases(spec, Settings(valid=40, rejects=40, seed=0))
+    other, _ = build_cases(spec, Settings(valid=40, rejects=40, seed=9))
+    fixed = lambda cases: [c.text for c in cases if not c.sampled]  # noqa: E731
+    assert fixed(first) == fixed(other) and fixed(first)
+    assert {c.text for c in first if c.sampled} != {c.text for c in other if c.sampled}
+
+
+def test_exact_evidence_for_a_regex_target():
+    spec = pfuzz.compile(TICKET)
+    different = run_audit(spec, RegexTarget(TICKET + "$", "match"), Settings(valid=20, rejects=20))
+    assert different.evidence.basis == "exact" and different.learned is None
+    assert "wrongly accepts 6,760,000 strings and wrongly rejects no strings" in different.evidence.sentence
+    (group,) = different.groups()  # every wrong accept lies in the one exact difference
+    assert group.difference_source == "exact comparison" and group.difference.pattern == TICKET + r"\n"
+    same = run_audit(spec, RegexTarget(TICKET), Settings(valid=20, rejects=20))
+    assert same.evidence.basis == "exact" and "equals the specification" in same.evidence.sentence
+
+
+def test_a_correct_validator_ends_with_a_learned_model_equal_to_the_specification():
+    report = audit(TICKET, "tickets:correct", settings=Settings(valid=150, rejects=200))
+    model = report.learned.model
+    assert report.agrees and model.equals_specification and model.conformance_depth == 1
+    assert report.evidence.basis == "learned"
+    assert "equals the specification, tested to 1 extra state" in report.evidence.sentence
+    assert model.guarantee() in report.evidence.sentence
+
+
+def test_learned_differences_are_confirmed_findings():
+    report = audit(TICKET, "tickets:dollar_newline", settings=Settings(valid=150, rejects=200))
+    learned = [f for f in report.findings if f.case.category == "learned"]
+    assert learned and not report.agrees and report.evidence.basis == "learned"
+    for f in learned:
+        # reference: the validator's own call, and re.fullmatch for the specification
+        assert re.match(r"^[A-Z]{2}-[0-9]{4}$", f.case.text) and not re.fullmatch(TICKET, f.case.text)
+        assert f.case.witness + "\n" == f.case.text
+    side = report.learned.wrongly_accepted
+    assert side.examples and all(re.match(r"^[A-Z]{2}-[0-9]{4}$", t) and not re.fullmatch(TICKET, t)
+                                 for t in side.examples)
+
+
+def test_a_large_group_is_summarised_by_its_difference_language():
+    spec = "(?i)[a-z]{3,12}"
+    report = audit(spec, "planted:vessel_missing_case_flag", settings=Settings(valid=1000, rejects=200))
+    groups = report.groups()
+    (group,) = groups
+    assert group.direction == "wrong reject" and group.difference_source == "learned model"
+    assert group.size == len(report.findings) > 998
+    assert group.kinds["valid"] >= 950
+    # The pattern, judged by re, against the hand-written reason: valid, yet not all lower case.
+    pattern = re.compile(group.difference.pattern)
+    for text in map("".join, __import__("itertools").product("aZq", repeat=4)):
+        truth = bool(re.fullmatch(spec, text)) and not re.fullmatch("[a-z]{3,12}", text)
+        assert bool(pattern.fullmatch(text)) == truth, text
+    without = audit(spec, "planted:vessel_missing_case_flag", settings=Settings(valid=1000,
+                                                                                rejects=200,
+                                                                                learning=NO_MODEL))
+    valid = [g for g in without.groups() if g.label == "valid"]
+    assert valid and valid[0].difference is None and valid[0].size > 900
+
+
+def test_raised_log_keeps_counts_and_the_shortest_inputs():
+    from pfuzz.audit.findings import RaisedLog
+    from pfuzz.audit.targets import Verdict
+
+    log = RaisedLog(keep=3)
+    texts = ["dddd", "b", "aa", "c", "", "eeeee"]
+    for text in texts:
+        log.add(text, Verdict(False, "KeyError", f"on {text}", True), spec_accepts=len(text) == 1)
+    log.add("x", Verdict(False, "ValueError", "no"), spec_accepts=False)
+    log.add("ok", Verdict(True), spec_accepts=True)
+    key_error, value_error = log.groups()
+    assert (key_error.type, key_error.count, key_error.spec_rejects) == ("KeyError", 6, 4)
+    assert key_error.shortest == ("", "b", "c") and key_error.message == "on "
+    assert not value_error.unexpected and log.unexpected == 6
+
+
+def test_a_small_set_without_a_difference_language_gets_its_own_pattern():
+    from pfuzz.audit.findings import group_findings
+    from pfuzz.audit.run import AuditCase, Finding
+    from pfuzz.audit.targets import Verdict
+
+    texts = [f"A{d}" for d in "0123456789"] + ["B0", "B1"]
+    found = [Finding(AuditCase(t, False, "near-miss", "replace"), Verdict(True)) for t in texts]
+    (group,) = group_findings(found, pfuzz.ALPHABETS["ascii"])
+    own = re.compile(group.own_pattern)
+    universe = [a + b for a in "ABC" for b in "0129x"]
+    assert [t for t in universe if own.fullmatch(t)] == [t for t in universe if t in texts]  # re

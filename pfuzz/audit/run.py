@@ -35,7 +35,15 @@ seeded source: the same seed and specification give the same cases.
 
 A regular-expression target is also compared exactly: its language in the
 user's call mode against the specification over the audit alphabet, reported
-as the two difference languages (``pfuzz.audit.comparison``).
+as the two difference languages (``pfuzz.audit.comparison``). Of a Python or
+command target a model is learned (``pfuzz.audit.learned``, unless
+``Settings.learning`` turns it off), with the cases among its tests; the
+differences it shows that the validator confirms are findings (category
+``learned``). Every exception the validator raises, on a case or a learning
+query, is logged by type (``pfuzz.audit.findings.RaisedLog``); one that is not
+a way of saying reject (``Verdict.unexpected``) is a finding of its own. The
+report says what its answer rests on (``pfuzz.audit.evidence``) and groups the
+disagreements by cause (``AuditReport.groups``).
 
 Cost: building the cases is dominated by the near-miss automata (one per
 edit kind, one for range edges) and the witness of each reject; with the
@@ -44,7 +52,7 @@ defaults a whole ``pfuzz audit`` run of a typical field pattern takes about
 password field of ``profiles/password-policy.toml`` takes about 4 s, 2.6 s of
 it for the range-edge near-misses (a 15,034-state automaton over the audit
 alphabet: 1.1 s to build, 1.3 s to set up its exact count tables).
-A Python target runs in this process without a timeout.
+The learned model adds the learner's cost, bounded by its budgets.
 """
 
 from __future__ import annotations
@@ -59,6 +67,9 @@ from pfuzz.boundary.suite import DEFAULT_LIMIT as DEFAULT_BOUNDARY_LIMIT
 from pfuzz.errors import EmptyLanguageError, PatternError, StateLimitError
 from pfuzz.audit.hostile import HOSTILE_CHARACTERS, Variant, case_flips, hostile_variants
 from pfuzz.language import Language
+from pfuzz.audit.evidence import Evidence, evidence_of
+from pfuzz.audit.findings import Group, RaisedLog, group_findings
+from pfuzz.audit.learned import Learned, LearningSettings, learn_validator, to_confirm
 from pfuzz.audit.targets import RegexTarget, Verdict
 from pfuzz.syntax.alphabet import resolve_alphabet
 
@@ -85,6 +96,7 @@ class AuditCase:
     reason: str = ""
     witness: str | None = None
     edits: tuple = ()
+    sampled: bool = False   #: drawn by the seeded generator (False: the same for every seed)
 
     @property
     def group(self) -> str:
@@ -108,6 +120,7 @@ class Settings:
     min_length: int | None = None   #: bounds the sampled valid strings and rejects
     max_length: int | None = None   #: ... and the boundary suite's length scan
     boundary_limit: int | None = DEFAULT_BOUNDARY_LIMIT   #: distinct boundary cases kept (None: all)
+    learning: LearningSettings = LearningSettings()   #: the learned model (Python and command targets)
 
 
 @dataclass(frozen=True)
@@ -136,6 +149,9 @@ class AuditReport:
     exact: Comparison | None = None
     exact_note: str = ""
     notes: list[str] = field(default_factory=list)
+    learned: Learned | None = None
+    learning_note: str = ""
+    raised: RaisedLog = field(default_factory=RaisedLog)   #: every exception, cases and queries
 
     @property
     def findings(self) -> list[Finding]:
@@ -161,7 +177,32 @@ class AuditReport:
 
     @property
     def agrees(self) -> bool:
-        return not self.findings and (self.exact is None or self.exact.equal)
+        """No disagreement, no exception that is a finding, no known difference of the languages."""
+        return (not self.findings and not self.raised.unexpected
+                and (self.exact is None or self.exact.equal)
+                and (self.learned is None or self.learned.model.equals_specification
+                     or not self.learned.model.confirmed_differences))
+
+    @property
+    def evidence(self) -> Evidence:
+        return evidence_of(self)
+
+    def case_counts(self) -> tuple[int, int]:
+        """Cases that are the same for every seed, and cases drawn by the seeded generator."""
+        sampled = sum(c.sampled for c in self.cases)
+        return len(self.cases) - sampled, sampled
+
+    def groups(self) -> list[Group]:
+        """The disagreements grouped by direction and kind of case (``pfuzz.audit.findings``)."""
+        if self.exact is not None:
+            sides, source = {"wrong accept": self.exact.only_b, "wrong reject": self.exact.only_a}, \
+                "exact comparison"
+        elif self.learned is not None:
+            sides, source = {"wrong accept": self.learned.wrongly_accepted,
+                             "wrong reject": self.learned.wrongly_rejected}, "learned model"
+        else:
+            sides, source = {}, ""
+        return group_findings(self.findings, self.audit_alphabet, sides, source)
 
     def summary(self) -> list[dict]:
         """Per category: cases, wrong accepts, wrong rejects, exceptions raised."""
@@ -195,7 +236,10 @@ def stages(settings: Settings, exact: bool = False) -> list[str]:
     names = ["boundary suite"] if settings.boundary else []
     names += ["valid strings", "hostile and case-flip cases", "range-edge rejects"]
     names += [f"{kind} rejects" for kind in settings.kinds]
-    return names + ["running the validator"] + (["exact comparison"] if exact else [])
+    names += ["running the validator"]
+    if exact:
+        return names + ["exact comparison"]
+    return names + (["learning a model of the validator"] if settings.learning.enabled else [])
 
 
 def _silent(_stage: str) -> None:
@@ -225,11 +269,15 @@ def build_cases(spec: Language, settings: Settings = Settings(),
     valid = spec.sample(settings.valid, seed=rng, **bounds) if settings.valid else []
     progress("hostile and case-flip cases")
     witnesses = _witnesses([c.text for c in boundary if c.expected] + valid, spec)
+    drawn_witnesses = set(witnesses) & set(valid) - {c.text for c in boundary}
     cases = [*boundary,
-             *(_variant_case(v, "hostile") for v in hostile_variants(witnesses) if settings.hostile),
-             *(_variant_case(v, "case-flip") for v in case_flips(witnesses) if settings.case_flip),
+             *(_variant_case(v, "hostile", drawn_witnesses) for v in hostile_variants(witnesses)
+               if settings.hostile),
+             *(_variant_case(v, "case-flip", drawn_witnesses) for v in case_flips(witnesses)
+               if settings.case_flip),
              *_near_misses(wide, settings, rng, notes, progress),
-             *(AuditCase(t, True, "valid", "sample", "sampled uniformly by length") for t in valid)]
+             *(AuditCase(t, True, "valid", "sample", "sampled uniformly by length", sampled=True)
+               for t in valid)]
     return _keep_first(cases, wide), notes
 
 
@@ -249,9 +297,9 @@ def _boundary_case(case) -> AuditCase:
                      case.witness, case.edits)
 
 
-def _variant_case(variant: Variant, category: str) -> AuditCase:
+def _variant_case(variant: Variant, category: str, drawn: set[str]) -> AuditCase:
     return AuditCase(variant.text, False, category, variant.kind, variant.reason,
-                     variant.witness, variant.edits)
+                     variant.witness, variant.edits, sampled=variant.witness in drawn)
 
 
 def _near_misses(wide: Language, settings: Settings, rng, notes: list[str],
@@ -276,7 +324,7 @@ def _near_misses(wide: Language, settings: Settings, rng, notes: list[str],
             continue
         reason = _edits_away(settings.distance, category == "range-edge")
         out.extend(AuditCase(r.text, False, category, _script_kind(r.edits) if kind else "", reason,
-                             r.witness, r.edits) for r in drawn)
+                             r.witness, r.edits, sampled=True) for r in drawn)
     return out
 
 
@@ -318,10 +366,49 @@ def run_audit(spec: Language, target, settings: Settings = Settings(), *,
     wide_alphabet = audit_alphabet(spec.alphabet, settings.reject_alphabet)
     report = AuditReport(spec_label or spec.pattern or "specification", target.label,
                          spec.alphabet_name, wide_alphabet, settings, cases, verdicts, notes=notes)
+    for case, verdict in zip(cases, verdicts):
+        report.raised.add(case.text, verdict, case.expected)
     if isinstance(target, RegexTarget):
         progress("exact comparison")
         report.exact, report.exact_note = exact_comparison(spec, target, wide_alphabet)
+    elif settings.learning.enabled:
+        progress("learning a model of the validator")
+        _learn(report, spec, target)
     return report
+
+
+def _learn(report: AuditReport, spec: Language, target) -> None:
+    """The learned model, and the differences it shows that the validator confirms, as findings."""
+    try:
+        learned = learn_validator(spec, target, report.cases, report.verdicts, report.audit_alphabet,
+                                  report.settings.learning, report.settings.seed, report.raised)
+    except ImportError:
+        report.learning_note = "no learned model: this installation has no pfuzz.learning"
+        return
+    except StateLimitError as error:
+        report.learning_note = f"no learned model: {error}"
+        return
+    report.learned = learned
+    texts = to_confirm(learned, {c.text for c in report.cases})
+    wide = lift(spec, report.audit_alphabet)
+    for text, verdict in zip(texts, target.verdicts(texts)):
+        expected = wide.accepts(text)
+        if verdict.accepted != expected:
+            side = "wrongly accepted" if verdict.accepted else "wrongly rejected"
+            why = None if expected else _explained(wide, text)
+            report.cases.append(AuditCase(text, expected, "learned", "",
+                                          f"a string the learned model has {side}, asked again",
+                                          why.witness if why else None, why.edits if why else ()))
+            report.verdicts.append(verdict)
+        report.raised.add(text, verdict, expected)
+
+
+def _explained(wide: Language, text: str):
+    """The nearest valid string and the edits from it, or None where there is none."""
+    try:
+        return wide.explain(text)
+    except (EmptyLanguageError, StateLimitError):
+        return None
 
 
 def exact_comparison(spec: Language, target: RegexTarget,

@@ -190,7 +190,9 @@ def _round(function, reject_on, texts: list, slot) -> dict:
     verdicts, raised = [], []
     for index, text in enumerate(texts):
         slot[0] = index + 1
-        _Channel.restore()
+        out, err = sys.stdout, sys.stderr
+        if out is None or err is None or out.closed or err.closed:
+            _Channel.restore()
         try:
             answer = call(function, text, reject_on)
         except SystemExit as error:

@@ -12,16 +12,15 @@ from pfuzz.audit.run import (DEFAULT_BOUNDARY_LIMIT, DEFAULT_REJECT_ALPHABET, DE
                      DEFAULT_VALID, EDIT_KINDS, AuditReport, Settings, run_audit, stages)
 from pfuzz.errors import TargetError
 from pfuzz.base.constants import CALL_MODES
-from pfuzz.audit.targets import DEFAULT_TIMEOUT, CommandTarget, PythonTarget, RegexTarget
+from pfuzz.audit.learned import LearningSettings
+from pfuzz.learning import (DEFAULT_EXTRA_STATES, DEFAULT_INTERIOR_PROBES, DEFAULT_MAX_QUERIES,
+                            DEFAULT_MAX_STATES)
+from pfuzz.audit.targets import (DEFAULT_TIMEOUT, CommandTarget, PythonTarget, RegexTarget,
+                                 parse_exception_names)
+from .audit_report import DEFAULT_SHOW, report_dict, report_lines
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
-                     language_options, max_length_option, min_length_option, out_option,
+                     language_options, max_length_option, min_length_option, note, out_option,
                      read_pattern_file, report_errors, seed_option)
-from .diff import comparison_dict, comparison_lines, quote
-
-#: Failures listed per category in the text report (JSON lists them all).
-DEFAULT_SHOW = 10
-#: Lengths of the exact comparison's count tables shown in the text report.
-EXACT_ROWS = 6
 
 
 @click.command("audit")
@@ -54,17 +53,36 @@ EXACT_ROWS = 6
                    f"else {DEFAULT_BOUNDARY_LIMIT:,}).")
 @click.option("--no-hostile", is_flag=True, help="Leave out the hostile near-misses.")
 @click.option("--no-case-flip", is_flag=True, help="Leave out the case flips.")
+@click.option("--reject-on", metavar="TYPE,...",
+              help="Exceptions that mean reject besides ValueError (builtin or dotted names); "
+                   "any other exception a --target raises is a finding.")
 @click.option("--timeout", type=click.FloatRange(min=0, min_open=True), default=DEFAULT_TIMEOUT,
-              show_default=True, help="Seconds a --cmd validator may take for the whole run.")
+              show_default=True, help="Seconds a --target or --cmd validator may take to answer "
+                                      "one round of strings.")
+@click.option("--no-learn", is_flag=True,
+              help="Do not learn a model of a --target or --cmd validator.")
+@click.option("--learn-queries", type=click.IntRange(min=1), default=DEFAULT_MAX_QUERIES,
+              show_default=True, help="Most strings learning may ask.")
+@click.option("--learn-states", type=click.IntRange(min=1), default=DEFAULT_MAX_STATES,
+              show_default=True, help="Most states the learned model may grow to.")
+@click.option("--learn-seconds", type=click.FloatRange(min=0, min_open=True), default=None,
+              help="Most seconds learning may take (default: no limit but the queries).")
+@click.option("--extra-states", type=click.IntRange(min=0), default=DEFAULT_EXTRA_STATES,
+              show_default=True, help="Test the learned model to this many states beyond its own.")
+@click.option("--interior-probes", type=click.IntRange(min=0), default=DEFAULT_INTERIOR_PROBES,
+              show_default=True,
+              help="Characters tried inside each symbol class besides its range ends.")
 @seed_option
 @click.option("--show", type=click.IntRange(min=0), default=DEFAULT_SHOW, show_default=True,
-              help="Failures listed per category in the text report.")
+              help="Disagreements listed one by one per group; larger groups are summarised.")
 @format_option(("text", "json"), "text")
 @out_option
 @report_errors
 def audit(profile, pattern, pattern_file, field, python_target, command, regex, mode, alphabet,
           flags, state_cap, min_length, max_length, valid, rejects, distance, reject_alphabet,
-          no_boundary, boundary_limit, no_hostile, no_case_flip, timeout, seed, show, fmt, out):
+          no_boundary, boundary_limit, no_hostile, no_case_flip, reject_on, timeout, no_learn,
+          learn_queries, learn_states, learn_seconds, extra_states, interior_probes, seed, show, fmt,
+          out):
     """Find the strings a validator gets wrong, against a PROFILE field or a --pattern.
 
     PROFILE is a TOML file or the name of a shipped profile (pfuzz profiles lists them).
@@ -73,9 +91,11 @@ def audit(profile, pattern, pattern_file, field, python_target, command, regex, 
     tabs, CRs, spaces, other scripts' digits, full-width letters, no-break and
     zero-width spaces), case flips, near-miss rejects over a wider alphabet,
     and valid strings. A string with a character outside --alphabet is
-    invalid. A --regex validator is also compared exactly. Exit status: 0 the
-    validator agrees on every case, 1 it does not, 2 bad input or a validator
-    that crashed, hung or answered short.
+    invalid. A --regex validator is also compared exactly; of a --target or
+    --cmd validator a model is learned and compared exactly. The report opens
+    with the evidence the answer rests on. Exit status: 0 the validator agrees,
+    1 it disagrees or raised an exception that is not a reject, 2 bad input or
+    a validator that exited, crashed, hung or answered short.
 
     \b
     Examples:
@@ -90,12 +110,19 @@ def audit(profile, pattern, pattern_file, field, python_target, command, regex, 
                         reject_alphabet=reject_alphabet, boundary=not no_boundary,
                         hostile=not no_hostile, case_flip=not no_case_flip,
                         min_length=min_length, max_length=max_length,
-                        boundary_limit=field_limit if boundary_limit is None else boundary_limit)
-    target = _target(python_target, command, regex, mode, timeout)
+                        boundary_limit=field_limit if boundary_limit is None else boundary_limit,
+                        learning=LearningSettings(not no_learn, learn_queries, learn_states,
+                                                  learn_seconds, extra_states, interior_probes))
+    target = _target(python_target, command, regex, mode, timeout, reject_on)
     try:
-        report = _run_with_progress(spec, target, settings, label)
+        with target:
+            report = _run_with_progress(spec, target, settings, label)
     except TargetError as error:
         fail(f"the validator {target.label} could not be audited: {error}", error.detail)
+    if report.learned is not None:
+        model = report.learned.model
+        note(f"learning the model asked {model.queries:,} queries in {model.rounds:,} rounds "
+             f"and took {model.seconds:.2f} s")
     if fmt == "json":
         emit(json.dumps(report_dict(report), ensure_ascii=False, indent=2) + "\n", out)
     else:
@@ -157,123 +184,23 @@ def _field(loaded, name, path):
     return loaded.field(name)
 
 
-def _target(python_target, command, regex, mode, timeout):
+def _target(python_target, command, regex, mode, timeout, reject_on):
     given = [x for x in (python_target, command, regex) if x is not None]
     if len(given) != 1:
         fail("give the validator once: --target MODULE:FUNCTION, --cmd COMMAND or --regex R")
     if mode != "fullmatch" and regex is None:
         fail("--mode applies to --regex only")
+    if reject_on is not None and python_target is None:
+        fail("--reject-on applies to --target only")
     try:
         if python_target is not None:
-            return PythonTarget(python_target)
+            return PythonTarget(python_target, timeout=timeout,
+                                reject_on=parse_exception_names(reject_on))
         if command is not None:
             return CommandTarget(command, timeout)
         return RegexTarget(regex, mode)
     except TargetError as error:
         fail(str(error), error.detail)
-
-
-# -- the report -----------------------------------------------------------------------
-
-def finding_dict(finding) -> dict:
-    case = finding.case
-    return {"text": case.text, "expected": "accept" if case.expected else "reject",
-            "verdict": "accept" if finding.verdict.accepted else "reject",
-            "error": finding.verdict.error or None, "category": case.category,
-            "kind": case.kind, "reason": case.reason, "witness": case.witness,
-            "edits": [str(e) for e in case.edits]}
-
-
-def report_dict(report: AuditReport) -> dict:
-    """The JSON report (``--format json``)."""
-    s = report.settings
-    return {
-        "agrees": report.agrees, "specification": report.spec, "validator": report.target,
-        "alphabet": report.alphabet, "audit_alphabet": report.audit_alphabet.describe(limit=12),
-        "audit_alphabet_ranges": [list(r) for r in report.audit_alphabet.ranges],
-        "settings": {"seed": s.seed, "valid": s.valid, "rejects": s.rejects, "distance": s.distance,
-                     "kinds": list(s.kinds), "reject_alphabet": s.reject_alphabet,
-                     "boundary": s.boundary, "hostile": s.hostile, "case_flip": s.case_flip,
-                     "min_length": s.min_length, "max_length": s.max_length,
-                     "boundary_limit": s.boundary_limit},
-        "summary": report.summary(),
-        "findings": [finding_dict(f) for f in report.findings],
-        "exact": comparison_dict(report.exact) if report.exact is not None else None,
-        "exact_note": report.exact_note or None,
-        "notes": report.notes,
-    }
-
-
-def report_lines(report: AuditReport, show: int = DEFAULT_SHOW) -> list[str]:
-    """The text report: failures by category, the exact comparison, the summary table."""
-    findings = report.findings
-    total = report.summary()[-1]
-    lines = [f"specification: {report.spec} (alphabet {report.alphabet})",
-             f"validator:     {report.target}",
-             f"cases:         {total['cases']:,} (seed {report.settings.seed})", ""]
-    lines += [f"note: {note}" for note in report.notes]
-    if findings:
-        lines.append(f"FAILURES: {len(findings):,} ({plural(total['wrong_accepts'], 'wrong accept')}, "
-                     f"{plural(total['wrong_rejects'], 'wrong reject')}), shortest first by category")
-    lines += _finding_lines(findings, show)
-    lines += _exact_lines(report)
-    lines += ["", *_summary_lines(report.summary()), ""]
-    lines.append("result: the validator agrees with the specification on every case"
-                 if report.agrees else "result: the validator DISAGREES with the specification")
-    return lines
-
-
-def _finding_lines(findings, show: int) -> list[str]:
-    lines: list[str] = []
-    groups: dict[str, list] = {}
-    for f in findings:
-        groups.setdefault(f.case.group, []).append(f)
-    for category, members in groups.items():
-        lines += ["", f"{category}: {plural(len(members), 'failure')}"]
-        for f in members[:show]:
-            lines += _one_finding(f)
-        if len(members) > show:
-            lines.append(f"  ... and {len(members) - show:,} more (--show, or --format json)")
-    return lines
-
-
-def plural(n: int, noun: str) -> str:
-    return f"{n:,} {noun}{'' if n == 1 else 's'}"
-
-
-def _one_finding(finding) -> list[str]:
-    case, verdict = finding.case, finding.verdict
-    what = "wrong accept" if finding.wrong_accept else "wrong reject"
-    raised = f"   (raised {verdict.error})" if verdict.error else ""
-    detail = [case.reason] if case.category == "near-miss" or not case.kind else [case.kind, case.reason]
-    if case.witness is not None:
-        edits = "; ".join(str(e) for e in case.edits)
-        detail.append(f"witness {quote(case.witness)}" + (f": {edits}" if edits else ""))
-    return [f"  {what}: {quote(case.text)}{raised}",
-            "      " + "; ".join(d for d in detail if d)]
-
-
-def _exact_lines(report: AuditReport) -> list[str]:
-    if report.exact is None:
-        return ["", report.exact_note] if report.exact_note else []
-    titles = ("wrong rejects (only the specification accepts)",
-              "wrong accepts (only the validator accepts)")
-    return ["", f"exact comparison over the audit alphabet {report.audit_alphabet.describe(limit=4)}",
-            *comparison_lines(report.exact, "the specification", "the validator", EXACT_ROWS, titles)]
-
-
-def _summary_lines(rows: list[dict]) -> list[str]:
-    header = ("category", "cases", "wrong accepts", "wrong rejects", "raised")
-    cells = [header] + [(r["category"], f"{r['cases']:,}", f"{r['wrong_accepts']:,}",
-                         f"{r['wrong_rejects']:,}", f"{r['raised']:,}") for r in rows]
-    widths = [max(len(row[i]) for row in cells) for i in range(len(header))]
-    out = []
-    for i, row in enumerate(cells):
-        out.append("  ".join(row[0].ljust(widths[0]) if j == 0 else row[j].rjust(widths[j])
-                             for j in range(len(header))).rstrip())
-        if i == 0 or i == len(cells) - 2:
-            out.append("  ".join("-" * w for w in widths))
-    return out
 
 
 COMMANDS = [audit]

@@ -1,0 +1,100 @@
+"""What an audit's answer rests on, in one sentence.
+
+Every audit ends with its evidence, the strongest it has, in one of four forms:
+
+- ``exact``: the exact difference of the two languages (a regular-expression
+  target, compiled and compared over the audit alphabet: a proof over that
+  alphabet);
+- ``learned``: a learned model of the validator that equals the
+  specification, tested to k extra states, with the guarantee's two
+  conditions in plain words; or a learned model that differs, with the size of
+  its two differences and how many differing strings the validator confirmed;
+- ``cases``: the cases alone: agreement on N deterministic and M sampled
+  cases, which is not a proof; or the disagreements found among them.
+
+Confirmed disagreements outrank an unconfirmed claim of equality: a learned
+model that equals the specification while some case disagrees (learning
+stopped by a budget) is not offered as the evidence. Unexpected exceptions are
+added to every form.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+__all__ = ["Evidence", "describe_side", "evidence_of"]
+
+
+@dataclass(frozen=True)
+class Evidence:
+    """The basis (``exact``, ``learned`` or ``cases``) and the sentence saying it."""
+
+    basis: str
+    sentence: str
+
+    def as_dict(self) -> dict:
+        return {"basis": self.basis, "sentence": self.sentence}
+
+
+def describe_side(side) -> str:
+    """``no strings``, ``6,760,000 strings`` or ``infinitely many strings (12 of length 3, ...)``."""
+    if side.empty:
+        return "no strings"
+    if side.total is not None:
+        return f"{side.total:,} string{'' if side.total == 1 else 's'}"
+    shortest = min(side.counts) if side.counts else None
+    if shortest is None:
+        return "infinitely many strings"
+    return f"infinitely many strings ({side.counts[shortest]:,} of length {shortest}, the shortest)"
+
+
+def evidence_of(report) -> Evidence:
+    """The evidence of an ``AuditReport`` (``pfuzz.audit.run``)."""
+    deterministic, sampled = report.case_counts()
+    tried = f"{deterministic:,} deterministic and {sampled:,} sampled cases"
+    raised = report.raised.unexpected
+    also = (f"; besides, the validator raised an exception that is not a reject on "
+            f"{raised:,} input{'' if raised == 1 else 's'}") if raised else ""
+    wrong = len(report.findings)
+    if report.exact is not None:
+        return Evidence("exact", _exact(report) + also)
+    learned = report.learned
+    if learned is not None and not (learned.model.equals_specification and wrong):
+        return Evidence("learned", _learned(report, tried) + also)
+    if wrong:
+        return Evidence("cases", f"{wrong:,} disagreement{'' if wrong == 1 else 's'} found among "
+                                 f"{tried} (each one a string the validator answered; with no "
+                                 "exact comparison or learned model, strings not tried may hide "
+                                 "more)" + also)
+    return Evidence("cases", f"agreement on {tried} (not a proof: strings not tried may still be "
+                             "judged differently)" + also)
+
+
+def _exact(report) -> str:
+    exact = report.exact
+    alphabet = report.audit_alphabet.describe(limit=4)
+    if exact.equal:
+        return (f"the exact difference is empty: the validator's language equals the specification "
+                f"over the audit alphabet {alphabet} (a proof over that alphabet)")
+    return (f"the exact difference over the audit alphabet {alphabet}: the validator wrongly "
+            f"accepts {describe_side(exact.only_b)} and wrongly rejects "
+            f"{describe_side(exact.only_a)}")
+
+
+def _learned(report, tried: str) -> str:
+    learned = report.learned
+    model = learned.model
+    states = f"{model.states:,} state{'' if model.states == 1 else 's'}"
+    queries = f"{model.queries:,} queries"
+    if model.equals_specification:
+        depth = model.conformance_depth
+        tested = (f"tested to {depth} extra state{'' if depth == 1 else 's'}" if depth is not None
+                  else "not confirmed by its tests")
+        return (f"a learned model of the validator ({states}) equals the specification, {tested} "
+                f"({queries}, the {tried} among the tests); guarantee: {model.guarantee()}")
+    wrong = len(report.findings)
+    return (f"a learned model of the validator ({states}, {queries}) differs from the "
+            f"specification: it wrongly accepts {describe_side(learned.wrongly_accepted)} and "
+            f"wrongly rejects {describe_side(learned.wrongly_rejected)}; {wrong:,} string"
+            f"{'' if wrong == 1 else 's'} the validator answered confirm{'s' if wrong == 1 else ''} "
+            f"it ({tried} were tried)")
