@@ -38,13 +38,11 @@ rows are made one at a time and written, cases.csv stays open from the first
 field to the last and takes each case as its field is written, and checksums
 are computed on the way out. What stays in memory is one field's strings at a
 time: its valid strings and its rejects, each with witness and edit script
-(about 0.45 KB per reject, measured with ``tracemalloc``), which must all be
-at hand to be de-duplicated and sorted before the first is written; and a
-record's rows. Measured by ``pfuzz/benchmarks/corpus.py``: 49 MB peak for the demo
-profile; for 967,347 cases over five fields (10^5 valid and 10^5 rejects
-each), 116 MB peak (810 MB while files were built whole), of which about
-45 MB is the interpreter, numpy and the compiled languages, and 21 s of CPU,
-most of it in witness search and sampling.
+(``pfuzz.base.resources.REJECT_BYTES`` apiece), which must all be at hand to be
+de-duplicated and sorted before the first is written; and a record's rows. So
+peak memory grows with the largest field, not with the corpus: ``python -m
+pfuzz.benchmarks corpus`` gives peak memory and CPU time for the demo profile
+and for five fields of 10^5 valid strings and 10^5 rejects each.
 """
 
 from __future__ import annotations

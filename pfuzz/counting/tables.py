@@ -25,8 +25,8 @@ pieces; rank and unrank cost O(length × d × log pieces) big-integer steps
 for out-degree d.
 
 Cost and limits: the tables up to length L hold states × L integers of up
-to L·log2(|alphabet|) bits, O(states × L²) bits in all (about 30 MB
-for a 100-state DFA at L = 1000, see ``pfuzz/benchmarks/sampling.py``). Long lengths are what the
+to L·log2(|alphabet|) bits, O(states × L²) bits in all (``python -m
+pfuzz.benchmarks sampling`` measures a 100-state DFA at L = 1000). Long lengths are what the
 floating-point tables of ``pfuzz.counting.bulk`` are for. Uniform sampling by length
 lives in ``pfuzz.counting.sampler``; ``Counter.sample`` forwards there, and that
 module's docstring states the reproducibility guarantee (same seed, pattern,

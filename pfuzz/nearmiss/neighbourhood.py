@@ -57,12 +57,12 @@ refined classes that act alike merged again.
 Cost: configurations are tuples of 2d + 1 ints; a step costs O(d) memoised
 lookups (set images per class and set, cuts per set). Before minimisation
 the automaton has one state per distinct configuration, in practice 1.0 to
-3 times the minimal near-miss DFA (measured: 3,084 configurations for the
-2,819-state distance-1 language of the password field above, 17,602 for its
-13,767-state edges-mode language, built in 0.2 s and 0.9 s). Edges mode at
-distance 2 is the costly case, because the simulation that respects
-transition labels cuts little: 235,000 configurations and 30 s for that
-field (74,934 minimal states). Exponential blow-up is possible in principle
+3 times the minimal near-miss DFA (3,084 configurations for the 2,819-state
+distance-1 language of the password field above, 17,602 for its
+13,767-state edges-mode language). Edges mode at distance 2 is the costly
+case, because the simulation that respects transition labels cuts little:
+235,000 configurations for that field (74,934 minimal states). Build times:
+``python -m pfuzz.benchmarks components``. Exponential blow-up is possible in principle
 (bounded repeats on both sides of overlapping separators come close: a
 bounded e-mail pattern has a 9,500-state minimal near-miss DFA at distance
 1), and the state cap of ``explore`` guards against it.
