@@ -10,7 +10,7 @@ which is what both Python string literals and ``re`` read back.
 
 from __future__ import annotations
 
-__all__ = ["escape_point", "escape_text", "needs_escape"]
+__all__ = ["escape_point", "escape_text", "needs_escape", "quoted"]
 
 #: Characters with a meaning of their own, by where the character is written.
 _SPECIAL = {
@@ -47,3 +47,8 @@ def escape_text(text: str) -> str:
     if not needs_escape(text):
         return text
     return "".join(escape_point(ord(ch), "text") for ch in text)
+
+
+def quoted(text: str) -> str:
+    """A string as reports show it: in double quotes, escaped to one line."""
+    return '"' + escape_text(text).replace('"', '\\"') + '"'
