@@ -75,14 +75,16 @@ from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, form
 @seed_option
 @click.option("--show", type=click.IntRange(min=0), default=DEFAULT_SHOW, show_default=True,
               help="Disagreements listed one by one per group; larger groups are summarised.")
-@format_option(("text", "json"), "text")
+@format_option(("text", "json", "junit", "sarif"), "text")
 @out_option
+@click.option("--html", "html_out", type=click.Path(dir_okay=False, path_type=Path), default=None,
+              help="Also write the report as one self-contained HTML page to FILE.")
 @report_errors
 def audit(profile, pattern, pattern_file, field, python_target, command, regex, mode, alphabet,
           flags, state_cap, min_length, max_length, valid, rejects, distance, reject_alphabet,
           no_boundary, boundary_limit, no_hostile, no_case_flip, reject_on, timeout, no_learn,
           learn_queries, learn_states, learn_seconds, extra_states, interior_probes, seed, show, fmt,
-          out):
+          out, html_out=None):
     """Find the strings a validator gets wrong, against a PROFILE field or a --pattern.
 
     PROFILE is a TOML file or the name of a shipped profile (pfuzz profiles lists them).
@@ -123,8 +125,16 @@ def audit(profile, pattern, pattern_file, field, python_target, command, regex, 
         model = report.learned.model
         note(f"learning the model asked {model.queries:,} queries in {model.rounds:,} rounds "
              f"and took {model.seconds:.2f} s")
+    if html_out is not None:
+        from pfuzz.report.page import write_audit_page
+        write_audit_page(html_out, spec, report_dict(report), profile=profile, field=field)
+        note(f"wrote {html_out}")
     if fmt == "json":
         emit(json.dumps(report_dict(report), ensure_ascii=False, indent=2) + "\n", out)
+    elif fmt in ("junit", "sarif"):
+        from pfuzz.report.ci import junit_xml, sarif_json
+        document = report_dict(report)
+        emit(junit_xml(document) if fmt == "junit" else sarif_json(document), out)
     else:
         emit("\n".join(report_lines(report, show)) + "\n", out)
     sys.exit(EXIT_OK if report.agrees else EXIT_DIFFERENT)

@@ -12,14 +12,18 @@ from pfuzz.boundary.suite import DEFAULT_LIMIT as DEFAULT_BOUNDARY_LIMIT
 from pfuzz.corpus.writer import step_count, write_corpus
 from pfuzz.errors import PfuzzWarning
 from pfuzz.profile.loader import load_profile
-from .common import fail, note, out_option, report_errors, seed_option, state_cap_option
+from .common import note, report_errors, state_cap_option
 
 
 @click.command("corpus")
 @click.argument("profile_path", metavar="PROFILE",
                 type=click.Path(dir_okay=False, path_type=Path))
-@out_option
-@seed_option
+@click.option("--out", "-o", metavar="DIR", type=click.Path(file_okay=False, path_type=Path),
+              required=True, help="The folder to write (required; it appears all at once).")
+@click.option("--seed", type=click.IntRange(min=0), default=None,
+              help="Seed of the one random generator. Default: the profile's seed key, else 0.")
+@click.option("--html", "html_out", metavar="FILE", type=click.Path(dir_okay=False, path_type=Path),
+              default=None, help="Also write an HTML report of the corpus's cases to FILE.")
 @click.option("--force", is_flag=True,
               help="Replace OUT if it holds an earlier corpus and nothing else (or is empty).")
 @state_cap_option
@@ -28,7 +32,7 @@ from .common import fail, note, out_option, report_errors, seed_option, state_ca
                    f"else {DEFAULT_BOUNDARY_LIMIT:,}).")
 @click.pass_context
 @report_errors
-def corpus(ctx, profile_path, out, seed, force, boundary_limit, state_cap):
+def corpus(ctx, profile_path, out, seed, force, boundary_limit, state_cap, html_out=None):
     """Write valid strings, near-miss rejects and boundary cases for every field of PROFILE.
 
     PROFILE is a TOML file describing fields (pattern, require, forbid,
@@ -44,15 +48,16 @@ def corpus(ctx, profile_path, out, seed, force, boundary_limit, state_cap):
       pfuzz corpus profiles/demo.toml --out demo-corpus
       pfuzz corpus ipv4 --out ipv4-corpus --seed 7 --force
     """
-    if out is None:
-        fail("give the output directory with --out DIR")
     profile = load_profile(profile_path, state_cap)
-    chosen = seed if ctx.get_parameter_source("seed") is not click.core.ParameterSource.DEFAULT \
-        else None
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", PfuzzWarning)
-        summary = _run(profile, out, chosen, force, boundary_limit)
+        summary = _run(profile, out, seed, force, boundary_limit)
     _print_summary(summary)
+    if html_out is not None:
+        from pfuzz.report.page import corpus_views, write_report
+        write_report(html_out, f"pfuzz corpus: {profile.title}", corpus_views(profile, out),
+                     about=profile.about)
+        note(f"wrote {html_out}")
     for warning in caught:
         if issubclass(warning.category, PfuzzWarning):
             note(f"warning: {warning.message}")

@@ -50,22 +50,36 @@ _FIELD_LABEL = re.compile(r"^(?P<profile>.+) field (?P<field>[a-z][a-z0-9_]*)$")
 def cause_groups(report: dict) -> list[dict]:
     """The report's cause groups, each with its findings (dicts of the JSON report).
 
+    A finding goes to the group that lists it among its shortest, else to the group of
+    its direction and kind of case, else to its direction's difference-language group.
     A report without ``groups`` is grouped here by direction and kind of case."""
     findings = report.get("findings") or []
-    by_direction: dict[tuple[str, str], list[dict]] = {}
+    groups = report.get("groups")
+    if not groups:
+        keys = list(dict.fromkeys((_direction(f), _label(f)) for f in findings))
+        groups = [{"direction": d, "kind": k} for d, k in keys]
+    members: list[list[dict]] = [[] for _ in groups]
+    listed = {t: i for i, g in enumerate(groups) for t in g.get("shortest") or []}
     for f in findings:
-        direction = "wrong accept" if f["verdict"] == "accept" else "wrong reject"
-        by_direction.setdefault((direction, f.get("kind") or f.get("category") or ""), []).append(f)
-    if not report.get("groups"):
-        return [{"direction": d, "kind": k or None, "size": len(m), "members": m,
-                 "shortest": [f["text"] for f in m[:5]]} for (d, k), m in by_direction.items()]
-    by_text = {f["text"]: f for f in findings}
-    out = []
-    for group in report["groups"]:
-        shortest = group.get("shortest") or []
-        members = [by_text[t] for t in shortest if t in by_text]
-        out.append({**group, "members": members})
-    return out
+        i = listed.get(f["text"])
+        if i is None:
+            same = [j for j, g in enumerate(groups) if g["direction"] == _direction(f)]
+            i = next((j for j in same if groups[j].get("kind") == _label(f)),
+                     next((j for j in same if not groups[j].get("kind")), same[0] if same else 0))
+        members[i].append(f)
+    return [{**g, "size": g.get("size", len(m)), "members": m,
+             "shortest": g.get("shortest") or [f["text"] for f in m[:5]]}
+            for g, m in zip(groups, members)]
+
+
+def _direction(finding: dict) -> str:
+    return "wrong accept" if finding["verdict"] == "accept" else "wrong reject"
+
+
+def _label(finding: dict) -> str:
+    """The kind of case a finding was found by, as the audit names its groups."""
+    category = finding.get("category") or ""
+    return f"near-miss ({finding['kind']})" if category == "near-miss" else category
 
 
 def location(report: dict, profile: str | None = None, field: str | None = None) -> dict:
