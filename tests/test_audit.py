@@ -175,9 +175,11 @@ def test_regex_target_is_compared_exactly():
 
 def test_unsupported_regex_still_runs_the_cases():
     spec = pfuzz.compile("[a-z]{2}")
-    report = run_audit(spec, RegexTarget(r"(\w)\1"), Settings(valid=20, rejects=20))
+    # A backreference to a group of unbounded length is not regular.
+    report = run_audit(spec, RegexTarget(r"(\w+)\1"), Settings(valid=20, rejects=20))
     assert report.exact is None and "cannot compile" in report.exact_note
     assert any(f.wrong_accept for f in report.findings)  # e.g. "00": \w also takes digits
+    assert report.evidence.basis == "cases"
 
 
 def test_progress_reports_every_stage_in_order():
@@ -339,3 +341,28 @@ def test_a_small_set_without_a_difference_language_gets_its_own_pattern():
     own = re.compile(group.own_pattern)
     universe = [a + b for a in "ABC" for b in "0129x"]
     assert [t for t in universe if own.fullmatch(t)] == [t for t in universe if t in texts]  # re
+
+
+def test_a_learned_model_is_the_evidence_only_where_the_answers_bear_it_out():
+    from types import SimpleNamespace
+
+    from pfuzz.audit.evidence import evidence_of
+
+    def report(equal: bool, wrong: int):
+        model = SimpleNamespace(equals_specification=equal, states=3, queries=10,
+                                conformance_depth=1, guarantee=lambda: "exact, provided ...")
+        empty = SimpleNamespace(empty=True, total=0, counts={})
+        return SimpleNamespace(case_counts=lambda: (5, 7), raised=SimpleNamespace(unexpected=0),
+                               findings=[object()] * wrong, exact=None,
+                               learned=SimpleNamespace(model=model, wrongly_accepted=empty,
+                                                       wrongly_rejected=empty))
+
+    assert evidence_of(report(True, 0)).basis == "learned"
+    assert evidence_of(report(False, 2)).basis == "learned"
+    missed = evidence_of(report(True, 2))
+    assert missed.basis == "cases" and "the learned model, which equals the specification, missed" \
+        in missed.sentence
+    unconfirmed = evidence_of(report(False, 0))
+    assert unconfirmed.basis == "cases" and unconfirmed.sentence.startswith(
+        "agreement on 5 deterministic and 7 sampled cases (not a proof")
+    assert "confirmed none of its differences" in unconfirmed.sentence

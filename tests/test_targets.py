@@ -176,7 +176,7 @@ def test_every_base_exception_is_recorded():
 
 
 @pytest.mark.parametrize("spec, message", [
-    ("hostile:exits", "the validator hostile:exits called sys.exit(0) on \"ab-1234\""),
+    ("hostile:exits", "it called sys.exit(0) on \"ab-1234\""),
     ("hostile:exits_one", "called sys.exit(1) on \"AB-1234\""),
     ("exits_at_import:check", "importing 'exits_at_import' called sys.exit(0)"),
 ])
@@ -198,11 +198,11 @@ def test_output_closing_and_reading_change_nothing(capfd):
 
 
 def test_a_crash_or_a_hang_names_the_string():
-    with pytest.raises(TargetError, match=r"process ended \(exit status 7\) while checking \"ZZ-9999\""):
+    with pytest.raises(TargetError, match=r"its process ended \(exit status 7\) while checking \"ZZ-9999\""):
         with python("hostile:kills_interpreter") as target:
             target.verdicts(["AB-1234", "ZZ-9999", "x"])
     started = time.monotonic()
-    with pytest.raises(TargetError, match="did not answer within 1 s while checking \"hang\""):
+    with pytest.raises(TargetError, match="it did not answer within 1 s while checking \"hang\""):
         with python("hostile:hangs", timeout=1) as target:
             target.verdicts(["AB-1234", "hang", "x"])
     assert time.monotonic() - started < 8

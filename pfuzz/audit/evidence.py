@@ -12,10 +12,11 @@ Every audit ends with its evidence, the strongest it has, in one of four forms:
 - ``cases``: the cases alone: agreement on N deterministic and M sampled
   cases, which is not a proof; or the disagreements found among them.
 
-Confirmed disagreements outrank an unconfirmed claim of equality: a learned
-model that equals the specification while some case disagrees (learning
-stopped by a budget) is not offered as the evidence. Unexpected exceptions are
-added to every form.
+The learned model is the evidence only where the validator's answers bear it
+out: a model equal to the specification while some case disagrees (learning
+stopped by a budget), or a model that differs while no string the validator
+answered confirms it, leaves the cases as the evidence, with a remark.
+Unexpected exceptions are added to every form.
 """
 
 from __future__ import annotations
@@ -59,15 +60,21 @@ def evidence_of(report) -> Evidence:
     if report.exact is not None:
         return Evidence("exact", _exact(report) + also)
     learned = report.learned
-    if learned is not None and not (learned.model.equals_specification and wrong):
+    if learned is not None and learned.model.equals_specification != bool(wrong):
         return Evidence("learned", _learned(report, tried) + also)
+    if learned is None:
+        unused = ""
+    elif wrong:
+        unused = "; the learned model, which equals the specification, missed them"
+    else:
+        unused = ("; a learned model differs from the specification, but the validator confirmed "
+                  "none of its differences when asked again, so the model is wrong there")
     if wrong:
         return Evidence("cases", f"{wrong:,} disagreement{'' if wrong == 1 else 's'} found among "
-                                 f"{tried} (each one a string the validator answered; with no "
-                                 "exact comparison or learned model, strings not tried may hide "
-                                 "more)" + also)
+                                 f"{tried} (each one a string the validator answered; strings not "
+                                 "tried may hide more)" + unused + also)
     return Evidence("cases", f"agreement on {tried} (not a proof: strings not tried may still be "
-                             "judged differently)" + also)
+                             "judged differently)" + unused + also)
 
 
 def _exact(report) -> str:

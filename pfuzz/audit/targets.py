@@ -300,7 +300,7 @@ class CommandTarget(Target):
             self._process = self._start()
         process = self._process
         if process.surplus():
-            self._fail(process, f"too many answers: the command wrote lines no string asked for")
+            self._fail(process, "too many answers: the command wrote lines no string asked for")
         got = process.exchange(data, n, deadline, LINE_LIMIT, stall=self.answer_wait)
         if got.ended == "answered":
             if process.surplus():
