@@ -52,7 +52,12 @@ defaults a whole ``pfuzz audit`` run of a typical field pattern takes about
 password field of ``profiles/password-policy.toml`` takes about 4 s, 2.6 s of
 it for the range-edge near-misses (a 15,034-state automaton over the audit
 alphabet: 1.1 s to build, 1.3 s to set up its exact count tables).
-The learned model adds the learner's cost, bounded by its budgets.
+The learned model adds the learner's cost, bounded by its budgets. Measured
+(whole ``pfuzz audit`` runs of the shipped profiles' fields against a Python
+target, a loaded 2-core machine): 1.7-5.6 s for the single-pattern fields with
+a correct validator (3,000-46,000 queries), 1.7-8.3 s with a validator that
+lets a final newline through (4,600-98,000 queries); 33-45 s for the password
+fields, where the default budget of 200,000 queries runs out.
 """
 
 from __future__ import annotations
