@@ -29,7 +29,6 @@ of the test module (collection time).
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 from typing import NamedTuple
 
@@ -130,7 +129,7 @@ def corpus_cases(folder: "str | Path", field: str | None) -> list[QACase]:
 
 
 def _rows(path: Path) -> list[dict]:
-    if not path.is_file():
-        return []
-    with path.open(encoding="utf-8", newline="") as handle:
-        return [json.loads(line) for line in handle if line.strip()]
+    """The rows of a corpus's JSON Lines file (none when the file is missing)."""
+    from pfuzz.base.jsonlines import read_jsonl
+
+    return read_jsonl(path.read_text(encoding="utf-8")) if path.is_file() else []

@@ -7,6 +7,7 @@ into a directory that QA can use as it is:
       manifest.json                 what was made, from what, with which versions
       SHA256SUMS                    digest of every other file (``sha256sum -c``)
       cases.csv                     every case below in one table
+      qa.xlsx                       the same cases as a spreadsheet (text cells; pfuzz.corpus.workbook)
       fields/NAME/valid.jsonl       valid strings (uniform by length)
       fields/NAME/rejects.jsonl     near-miss rejects, each with witness and edits
       fields/NAME/boundary.jsonl    the deterministic boundary suite
@@ -327,6 +328,12 @@ class _Writer:
 
     def finish(self) -> CorpusSummary:
         """Write the manifest and SHA256SUMS (after cases.csv is closed and counted)."""
+        from pfuzz.corpus import workbook
+        if workbook.available():            # the QA workbook, from the files just staged
+            data = workbook.workbook_bytes(self.staging.temp, self.profile.title)
+            with self.staging.open(workbook.WORKBOOK_NAME) as handle:
+                handle.flush()
+                handle.buffer.write(data)
         manifest = _manifest(self.profile, self.seed, self.field_facts, self.record_facts,
                              self.staging.files)
         self.staging.write(MANIFEST_NAME, json_text(manifest, indent=2, sort_keys=False) + "\n")

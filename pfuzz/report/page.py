@@ -25,7 +25,6 @@ page says so.
 
 from __future__ import annotations
 
-import json
 import re
 import unicodedata
 from dataclasses import dataclass, field as dataclass_field
@@ -224,10 +223,10 @@ def corpus_views(profile, out_dir: "str | Path") -> list[FieldView]:
 
 
 def _jsonl(path: Path) -> list[dict]:
-    if not path.is_file():
-        return []
-    with path.open(encoding="utf-8", newline="") as handle:
-        return [json.loads(line) for line in handle if line.strip()]
+    """The rows of a corpus's JSON Lines file (none when the file is missing)."""
+    from pfuzz.base.jsonlines import read_jsonl
+
+    return read_jsonl(path.read_text(encoding="utf-8")) if path.is_file() else []
 
 
 # -- the audit ------------------------------------------------------------------------------
