@@ -222,7 +222,7 @@ def _distinct(values: np.ndarray, size: int) -> np.ndarray:
     """The distinct values (all below ``size``), increasing."""
     if 16 * len(values) < size:
         ordered = np.sort(values)
-        return ordered[np.concatenate(([True], ordered[1:] != ordered[:-1]))]
+        return ordered[np.concatenate(([True], ordered[1:] != ordered[:-1]))[:len(ordered)]]
     seen = np.zeros(size, dtype=bool)
     seen[values] = True
     return np.flatnonzero(seen)
