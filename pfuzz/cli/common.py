@@ -141,7 +141,7 @@ def _alphabet_hint(options: dict) -> str:
 
 
 def pattern_input(func):
-    """PATTERN argument, or --pattern-file FILE; passes ``pattern`` (str)."""
+    """PATTERN argument (or PROFILE:FIELD), or --pattern-file FILE; passes ``pattern`` (str)."""
     @click.argument("pattern_arg", metavar="PATTERN", required=False)
     @click.option("--pattern-file", type=click.Path(dir_okay=False, path_type=Path),
                   help="Read the pattern from FILE (one pattern; a final newline is dropped).")
@@ -182,7 +182,14 @@ def language_options(func):
 
 
 def compile_language(pattern: str, alphabet: str, flags: int, state_cap: int):
+    """The language of a pattern, or of a profile field named as ``PROFILE:FIELD`` (with the
+    field's own alphabet, flags, lengths, require and forbid; ``pfuzz.profile.reference``)."""
     from pfuzz.language import Language
+    from pfuzz.profile.reference import pattern_or_field
+
+    field = pattern_or_field(pattern)
+    if field is not None:
+        return field.language()
     return Language.compile(pattern, alphabet, flags, state_cap=state_cap)
 
 
