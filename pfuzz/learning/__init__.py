@@ -30,12 +30,20 @@ bisection in the manner of symbolic automata learning (``symbols``), equivalence
 comparison with the specification and by Wp-method state tests (``conformance``), the loop
 (``learner``).
 
-The loop is this project's own, not AALpy's (a general automata-learning library on PyPI),
-measured on a 50-state target (``tests``-style regex validator, 10 classes, 2 cores):
-AALpy 2.0's KV with Rivest–Schapire asked its SUL one string at a time (its ``SUL`` calls
-``step`` per character; there is no batch interface, so a command target could not be asked a
-round at a time), and pulled in pydot and pyparsing; the symbol classes and the
-specification-guided equivalence oracle, which are most of the work, would be ours either way.
+The loop is this project's own; AALpy 2.0 (a general automata-learning library on PyPI) was
+tried and not adopted. Measured on a 49-state target (a regex validator over 8 classes of
+printable ASCII, Python 3.11, one core): AALpy's KV with Rivest–Schapire needed 169,527
+validator calls (1.7 s) to learn it with a perfect equivalence oracle, since its ``SUL`` asks the
+output after every character; with the ``SUL`` cut to one call per word (and its cache off,
+which that breaks) 40,674 calls (0.25 s), L* 14,671 (0.17 s); its Wp-method oracle for one extra
+state then asked 2,133,461 more (6.5-8 s). This package learns the same target with 8,253
+distinct queries in 0.09 s (the specification being the target's own pattern), including its
+own equivalence checks against the specification and
+the probes of every class, and with 61,124 in 1.7 s when the model is also tested for one extra
+state. Beyond the numbers: AALpy asks one word at a time through ``SUL.query`` (no batches, so a
+command target could not answer a round at a time), would need the symbol classes and the
+specification-guided equivalence oracle written around it anyway (they are most of this
+package), and brings pydot and pyparsing with it.
 """
 
 from pfuzz.learning.learner import (DEFAULT_EXTRA_STATES, DEFAULT_INTERIOR_PROBES,

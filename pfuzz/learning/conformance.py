@@ -31,10 +31,13 @@ memory stays linear in the hypothesis, never in the size of a suite):
   range edges and interior characters tried at every position the specification knows of,
   so that an edge moved at a later position is found even when the hypothesis is still far
   from the validator. Size: spec states × probes.
-- ``probe_tests(tree)``: every probe of every class asked in place of the class's
-  representative after every access string, followed by the identifier of the state the
-  representative leads to; each test carries the word with the representative, whose answer it
-  must match (a mismatch splits the class, ``pfuzz.learning.symbols``).
+- ``probe_tests(tree, hypothesis, skip, k)``: every probe of every class asked in place of the
+  class's representative after the access string of every state that does not behave as the
+  specification state its access string reaches (those are probed by
+  ``specification_probes``), followed by up to k representatives and the identifier of the
+  state reached; each test carries the word with the representative, whose answer it must
+  match (a mismatch splits the class, ``pfuzz.learning.symbols``). Size: such states × probes
+  × classes^k × (tree depth).
 """
 
 from __future__ import annotations
@@ -43,7 +46,6 @@ import itertools
 from typing import Iterator
 
 from pfuzz.automata.dfa import DEAD, DFA
-from pfuzz.automata.minimise import minimise
 from pfuzz.base.charset import partition
 from pfuzz.learning.discrimination import Tree
 from pfuzz.learning.symbols import Symbols
@@ -71,10 +73,12 @@ def difference_witnesses(a: DFA, b: DFA) -> list[tuple[str, bool]]:
     return sorted(words.items(), key=lambda item: (len(item[0]), item[0]))
 
 
-def matched_states(a: DFA, b: DFA) -> set[int]:
-    """The states of ``a`` reached together with a state of ``b`` that has the same language."""
+def matched_states(a: DFA, b: DFA, access: list[str]) -> set[int]:
+    """The states ``q`` of ``a`` whose language equals that of the state of ``b`` reached by
+    ``access[q]``, where that state is live."""
     graph, suffix, _ = _product(a, b)
-    return {pair[0] for pair, rest in zip(graph.nodes, suffix) if rest is None}
+    same = {pair for pair, rest in zip(graph.nodes, suffix) if rest is None and pair[1] >= 0}
+    return {q for q, word in enumerate(access) if (q, b.run(word)) in same}
 
 
 def _product(a: DFA, b: DFA):
@@ -143,37 +147,52 @@ class _Graph:
 
 
 def state_tests(tree: Tree, hypothesis: DFA, length: int) -> Iterator[tuple[str, bool]]:
-    """``access(q)·m·w`` for |m| = ``length``, with the hypothesis' answer; ``m`` is made of the
-    least characters of the hypothesis' merged classes (symbols it treats alike everywhere)."""
-    reps = [chr(c.min) for c in minimise(hypothesis).classes]
-    identifiers: dict[int, list[str]] = {}
-    accepting = hypothesis.accepting
+    """``access(q)·m·w`` for |m| = ``length`` (representatives), with the hypothesis' answer."""
+    reps = [chr(c.min) for c in hypothesis.classes]
+    columns = range(len(reps))
+    table, accepting = hypothesis.table, hypothesis.accepting
+    identifiers: dict[int, list[tuple[str, bool]]] = {}
     for q, access in enumerate(tree.access):
-        for middle in itertools.product(reps, repeat=length):
-            word = "".join(middle)
-            target = hypothesis.run(word, q)
+        for middle in itertools.product(range(len(reps)), repeat=length):
+            target = q
+            for c in middle:
+                target = table[target][columns[c]]  # the tree's hypothesis is complete
             if target not in identifiers:
-                identifiers[target] = tree.identifier(target)
-            for suffix in identifiers[target]:
-                yield access + word + suffix, hypothesis.run(suffix, target) in accepting
+                identifiers[target] = [(suffix, hypothesis.run(suffix, target) in accepting)
+                                       for suffix in tree.identifier(target)]
+            word = access + "".join(reps[c] for c in middle)
+            for suffix, answer in identifiers[target]:
+                yield word + suffix, answer
 
 
-def probe_tests(tree: Tree, skip: set[int]) -> Iterator[tuple[str, tuple[str, str, str, str]]]:
+def probe_tests(tree: Tree, hypothesis: DFA, skip: set[int],
+                length: int) -> Iterator[tuple[str, tuple[str, str, str, str]]]:
     """Each probe in place of its representative after the access string of each state not in
-    ``skip``, then each suffix of the identifier of the state the representative leads to:
-    ``(word, (reference, before, probe, after))``."""
-    symbols = tree.symbols
-    for a in symbols.ordered():
-        cls = symbols.classes[a]
-        rep = cls.representative
-        for probe in cls.probes:
-            if probe == rep:
-                continue
+    ``skip``, then ``m·w`` for every ``m`` of at most ``length`` representatives and every
+    suffix ``w`` of the identifier of the state the representative and ``m`` lead to:
+    ``(word, (reference, before, probe, after))``, shortest ``m`` first."""
+    symbols, table = tree.symbols, hypothesis.table
+    reps = [chr(c.min) for c in hypothesis.classes]
+    identifiers: dict[int, list[str]] = {}
+    for n in range(length + 1):
+        for a in symbols.ordered():
+            rep = symbols.representative(a)
+            others = [p for p in symbols.classes[a].probes if p != rep]
+            column = hypothesis.class_of(rep)
             for q, access in enumerate(tree.access):
-                if q in skip:
+                if q in skip or not others:
                     continue
-                for suffix in tree.identifier(tree.targets[q][a].state):
-                    yield access + probe + suffix, (access + rep + suffix, access, probe, suffix)
+                for middle in itertools.product(range(len(reps)), repeat=n):
+                    target = table[q][column]
+                    for c in middle:
+                        target = table[target][c]
+                    if target not in identifiers:
+                        identifiers[target] = tree.identifier(target)
+                    word = "".join(reps[c] for c in middle)
+                    for suffix in identifiers[target]:
+                        after = word + suffix
+                        for probe in others:
+                            yield access + probe + after, (access + rep + after, access, probe, after)
 
 
 def specification_probes(spec: DFA, symbols: Symbols) -> Iterator[tuple[str, tuple[str, str, str, str]]]:

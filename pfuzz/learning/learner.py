@@ -178,11 +178,12 @@ class _Learning:
 
     def _probes(self) -> bool:
         oracle = self.oracle
-        matched = matched_states(self.hypothesis, self.spec.dfa)
+        matched = matched_states(self.hypothesis, self.spec.dfa, self.tree.access)
 
         def tests():
             both = itertools.chain(specification_probes(self.spec.dfa, self.symbols),
-                                   probe_tests(self.tree, matched))
+                                   probe_tests(self.tree, self.hypothesis, matched,
+                                               self.extra_states))
             for word, (reference, before, probe, after) in both:
                 yield word, (oracle.accepts(reference), before, probe, after)
 
@@ -287,7 +288,7 @@ class _Learning:
             model=model, specification=spec, wrongly_accepted=model - spec,
             wrongly_rejected=spec - model, states=model.states,
             hypothesis_states=hypothesis.n_states, equals_specification=model.equivalent(spec),
-            classes=merged(model.dfa.classes, self.classes),
+            classes=tuple(self.classes),
             interior_probes=interior_probes, extra_states=self.extra_states,
             conformance_depth=self.depth if self.hypothesis is not None else None,
             confirmed_differences=tuple(confirmed), queries=self.oracle.queries,
@@ -295,12 +296,3 @@ class _Learning:
             counterexamples=self.counterexamples, splits=self.splits,
             budget_exhausted=self.exhausted, counterexample_pending=self.pending)
 
-
-def merged(classes: Sequence[CharSet], parts: Sequence[SymbolClass]) -> tuple[SymbolClass, ...]:
-    """The model's classes (unions of the learner's, merged where the model treats them alike),
-    each with the probes of its parts."""
-    out = []
-    for chars in classes:
-        probes = sorted(p for part in parts if part.chars.issubset(chars) for p in part.probes)
-        out.append(SymbolClass(chars, tuple(probes)))
-    return tuple(out)
