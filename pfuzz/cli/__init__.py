@@ -29,6 +29,7 @@ COMMANDS = {
     "diff": "diff",
     "draw": "draw",
     "audit": "audit",
+    "learn": "learn",
     "report": "report",
 }
 

@@ -177,17 +177,12 @@ class _Learning:
                 yield word, model
 
     def _probes(self) -> bool:
-        oracle = self.oracle
+        """Ask every probe beside its representative; split the first class found wanting."""
         matched = matched_states(self.hypothesis, self.spec.dfa, self.tree.access)
-
-        def tests():
-            both = itertools.chain(specification_probes(self.spec.dfa, self.symbols),
-                                   probe_tests(self.tree, self.hypothesis, matched,
-                                               self.extra_states))
-            for word, (reference, before, probe, after) in both:
-                yield word, (oracle.accepts(reference), before, probe, after)
-
-        failed = self._failures(tests(), lambda expected, answer: expected[0] == answer)
+        tests = itertools.chain(specification_probes(self.spec.dfa, self.symbols),
+                                probe_tests(self.tree, self.hypothesis, matched, self.extra_states))
+        answers = self.oracle.answers
+        failed = self._failures(tests, lambda context, answer: answers[context[0]] == answer)
         if not failed:
             return False
         self.pending, self.depth = True, None
@@ -203,41 +198,44 @@ class _Learning:
 
     # -- asking tests in rounds ----------------------------------------------------------------
     def _failures(self, tests, passes=lambda expected, answer: expected == answer) -> list:
-        """The failing tests of the first round that has any (tests: ``(word, expected)``).
+        """The failing tests of the first round that has any.
 
-        Tests already answered are judged at once; the others are asked in rounds of
-        ``FIRST_ROUND`` new strings, doubling up to ``ROUND_SIZE``. When the query budget cannot take the next new string, what fits is
-        asked and judged, and then ``Exhausted`` is raised.
+        A test is ``(word, expected)``: ``passes(expected, answer)`` judges the validator's
+        answer for ``word``. Where ``expected`` is a tuple, its first item is a reference word
+        that is asked in the same round, so that ``passes`` can read its answer. Tests already
+        answered are judged at once; the others are asked in rounds of ``FIRST_ROUND`` new
+        strings, doubling up to ``ROUND_SIZE``. When the query budget cannot take the next new
+        string, what fits is asked and judged, and then ``Exhausted`` is raised.
         """
         answers, oracle = self.oracle.answers, self.oracle
-        batch, fresh, size = [], set(), FIRST_ROUND
+        batch, fresh, size = [], {}, FIRST_ROUND
         for count, (word, expected) in enumerate(tests):
-            known = answers.get(word)
-            if known is not None:
-                if not passes(expected, known):
+            needed = (word, expected[0]) if isinstance(expected, tuple) else (word,)
+            unknown = [w for w in needed if w not in answers and w not in fresh]
+            if not unknown and all(w in answers for w in needed):
+                if not passes(expected, answers[word]):
                     return [(word, expected)]
                 if count % ROUND_SIZE == 0:
                     oracle.check_time()
                 continue
-            if word not in fresh:
-                if len(fresh) >= oracle.room():
-                    failed = self._judge(batch, passes)
-                    if failed:
-                        return failed
-                    raise Exhausted("queries")
-                fresh.add(word)
-            batch.append((word, expected))
-            if len(fresh) >= size:
-                failed = self._judge(batch, passes)
+            if len(fresh) + len(unknown) > oracle.room():
+                failed = self._judge(batch, fresh, passes)
                 if failed:
                     return failed
-                batch, fresh, size = [], set(), min(2 * size, ROUND_SIZE)
-        return self._judge(batch, passes)
+                raise Exhausted("queries")
+            fresh.update(dict.fromkeys(unknown))
+            batch.append((word, expected))
+            if len(fresh) >= size:
+                failed = self._judge(batch, fresh, passes)
+                if failed:
+                    return failed
+                batch, fresh, size = [], {}, min(2 * size, ROUND_SIZE)
+        return self._judge(batch, fresh, passes)
 
-    def _judge(self, batch: list, passes) -> list:
-        replies = self.oracle.ask([word for word, _ in batch])
-        return [(word, expected) for (word, expected), answer in zip(batch, replies)
-                if not passes(expected, answer)]
+    def _judge(self, batch: list, fresh: dict, passes) -> list:
+        self.oracle.ask(fresh)
+        answers = self.oracle.answers
+        return [(word, expected) for word, expected in batch if not passes(expected, answers[word])]
 
     # -- using counterexamples -----------------------------------------------------------------
     def _use(self, failed: list) -> bool:
