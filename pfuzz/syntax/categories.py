@@ -1,27 +1,30 @@
-"""The exact code-point sets of ``\\d``, ``\\w`` and ``\\s``, asked of ``re`` itself.
+"""The exact code-point sets of ``\\d``, ``\\w`` and ``\\s``, as ``re`` itself has them.
 
 ``re`` defines its categories through the interpreter's Unicode database
 (``\\d`` is a decimal digit, ``\\w`` alphanumeric or ``_``, ``\\s`` white
 space), and through a small fixed table under ``re.ASCII``. Rather than
-re-deriving those rules, this module asks ``re``: it decodes one string that
-holds every code point 0..0x10FFFF (surrogates included, via UTF-32 with
-``surrogatepass``) and scans it with ``re.finditer(r"\\d+", ...)``; each
-match is one maximal run, so the matches are the ranges of the set directly.
+re-deriving those rules, pfuzz asks ``re``: ``pfuzz.syntax.unicode_tables``
+ships, per Python minor version and Unicode version, the ranges a scan of every
+code point with ``re.finditer(r"\\d+", ...)`` found, checked against ``re`` for
+every code point by the generator and by tests/external/test_unicode_tables.py.
+On an interpreter with no shipped table the same scan runs here instead.
 
-Cost: about 30 ms to build the string and 10 ms to scan it, so about 40 ms
-per table (three categories, two modes), paid once per process on first use
-only; the 4.4 MB string is not kept. Limits: the tables follow the running
-interpreter's Unicode database, as ``re`` does.
+Cost: with a shipped table, one import of its data module per process and a
+``CharSet`` wrapped around a tuple of at most a few hundred ranges; without
+one, a pass of ``re`` over a 4.4 MB string of all 1,114,112 code points per
+table (three categories, two modes), once per process, the string not kept.
+Limits: the tables follow the running interpreter's Unicode database, as ``re`` does.
 """
 
 from __future__ import annotations
 
-import array
 import functools
-import re
-import sys
 
-from pfuzz.base.charset import MAX_CODE_POINT, CharSet
+from pfuzz.base.charset import CharSet
+from pfuzz.syntax.unicode_tables import ranges
+from pfuzz.syntax.unicode_tables.scan import every_code_point_text, table_name
+
+__all__ = ["CATEGORY_LETTERS", "category", "every_code_point_text"]
 
 #: The category escapes; the upper-case letter is the complement of the lower-case one.
 CATEGORY_LETTERS = "dDsSwW"
@@ -36,14 +39,6 @@ def category(letter: str, ascii_only: bool = False) -> CharSet:
     return positive if letter.islower() else positive.complement()
 
 
-def every_code_point_text() -> str:
-    """One string holding every code point from U+0000 to U+10FFFF, in order."""
-    typecode = next(code for code in "IL" if array.array(code).itemsize == 4)
-    points = array.array(typecode, range(MAX_CODE_POINT + 1))
-    return points.tobytes().decode(f"utf-32-{sys.byteorder[0]}e", "surrogatepass")
-
-
 @functools.cache
 def _positive(letter: str, ascii_only: bool) -> CharSet:
-    runs = re.finditer(f"\\{letter}+", every_code_point_text(), re.ASCII if ascii_only else 0)
-    return CharSet(tuple((match.start(), match.end() - 1) for match in runs))
+    return CharSet(ranges(table_name(letter, ascii_only)))
