@@ -20,9 +20,9 @@ from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA
 from pfuzz.base.charset import ALPHABETS, CharSet
 from pfuzz.boundary.suite import Case
 from pfuzz.errors import (AlphabetError, ArgumentError, CorpusExistsError, EmptyLanguageError,
-                          GraphvizError, NotInLanguageError, PatternError, PfuzzError,
-                          PfuzzWarning, ProfileError, RankOutOfRangeError, StateLimitError,
-                          TargetError)
+                          GraphvizError, NotInLanguageError, OutputError, PatternError,
+                          PfuzzError, PfuzzWarning, ProfileError, RankOutOfRangeError,
+                          ResourceLimitError, StateLimitError, TargetError)
 from pfuzz.language import Language, compile
 from pfuzz.nearmiss.edits import Edit, Explanation
 from pfuzz.nearmiss.rejects import Reject
@@ -32,6 +32,7 @@ __version__ = "0.1.0"
 __all__ = [
     "ALPHABETS", "AlphabetError", "ArgumentError", "Case", "CharSet", "CorpusExistsError", "DFA",
     "DEFAULT_STATE_CAP", "Edit", "EmptyLanguageError", "Explanation", "GraphvizError", "Language",
-    "NotInLanguageError", "PatternError", "PfuzzError", "PfuzzWarning", "ProfileError",
-    "RankOutOfRangeError", "Reject", "StateLimitError", "TargetError", "compile", "__version__",
+    "NotInLanguageError", "OutputError", "PatternError", "PfuzzError", "PfuzzWarning",
+    "ProfileError", "RankOutOfRangeError", "Reject", "ResourceLimitError", "StateLimitError",
+    "TargetError", "compile", "__version__",
 ]

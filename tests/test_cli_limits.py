@@ -57,12 +57,13 @@ def test_the_pattern_itself_fits_under_the_small_cap():
 
 
 def test_the_cap_travels_with_a_language_to_its_near_miss_automaton():
+    # Built without a cap first: the cached automaton must not serve the capped language.
+    assert Language.compile(SMALL_PATTERN, "printable").near_misses().states > SMALL_CAP
     lang = Language.compile(SMALL_PATTERN, "printable", state_cap=SMALL_CAP)
     with pytest.raises(StateLimitError):
         lang.near_misses()
     with pytest.raises(StateLimitError):
         lang.rejects(3, seed=0)
-    assert Language.compile(SMALL_PATTERN, "printable").near_misses().states > SMALL_CAP
 
 
 def test_the_cap_travels_to_products():
@@ -211,3 +212,19 @@ def test_out_may_not_be_a_symbolic_link(tmp_path):
 def _write(path: Path, text: str) -> str:
     path.write_text(text, encoding="utf-8")
     return str(path)
+
+
+@pytest.mark.parametrize("args", [["sample", "--pattern-file", "a\x00b"],
+                                  ["sample", "a", "--out", "a\x00b"],
+                                  ["corpus", "p\x00.toml", "--out", "x"]])
+def test_a_nul_in_a_path_is_a_usage_error(args):
+    result = run(*args)
+    assert result.exit_code == 2 and result.exception is not None
+    assert isinstance(result.exception, SystemExit)
+    assert "holds a NUL character" in result.stderr
+
+
+def test_count_over_an_empty_length_range_is_one_line():
+    # The language of '' has one string, of length 0 (found by the fuzz driver).
+    line = one_error_line(run("count", "", "--min-length", "6"))
+    assert "the length range 6 to 0 is empty" in line

@@ -21,7 +21,7 @@ from pfuzz.base.charset import DEFAULT_ALPHABET, ALPHABETS
 from pfuzz.automata.dfa import DEFAULT_STATE_CAP
 from pfuzz.errors import EmptyLanguageError, OutputError, PatternError, PfuzzError, shorten
 from pfuzz.base.escaping import escape_point, escape_text
-from pfuzz.base.files import Terminated, terminate_as_interrupt, write_atomic
+from pfuzz.base.files import Terminated, shown_path, terminate_as_interrupt, write_atomic
 from pfuzz.base.jsonlines import jsonl_line
 from pfuzz.base.resources import require_memory, string_bytes
 
@@ -140,10 +140,21 @@ def _alphabet_hint(options: dict) -> str:
             f"alphabet {alphabet!r}; widen it, e.g. --alphabet unicode")
 
 
+class FilePath(click.Path):
+    """``click.Path`` that turns a name no file can have (a NUL character; ``os.stat`` raises
+    ``ValueError`` for it) into a usage error, exit status 2, instead of a traceback."""
+
+    def convert(self, value, param, ctx):
+        if "\x00" in str(value):
+            self.fail(f"{shown_path(value)} holds a NUL character, which no file name may hold",
+                      param, ctx)
+        return super().convert(value, param, ctx)
+
+
 def pattern_input(func):
     """PATTERN argument (or PROFILE:FIELD), or --pattern-file FILE; passes ``pattern`` (str)."""
     @click.argument("pattern_arg", metavar="PATTERN", required=False)
-    @click.option("--pattern-file", type=click.Path(dir_okay=False, path_type=Path),
+    @click.option("--pattern-file", type=FilePath(dir_okay=False, path_type=Path),
                   help="Read the pattern from FILE (one pattern; a final newline is dropped).")
     @functools.wraps(func)
     def wrapper(*args, pattern_arg=None, pattern_file=None, **kwargs):
@@ -160,7 +171,11 @@ def read_pattern_file(path: Path) -> str:
     try:
         text = path.read_text(encoding="utf-8")
     except OSError as error:
-        fail(f"cannot read pattern file {str(path)!r}: {error.strerror}")
+        fail(f"cannot read pattern file {shown_path(path)}: {error.strerror}")
+    except UnicodeDecodeError as error:
+        fail(f"pattern file {shown_path(path)} is not UTF-8 text (byte {error.start})")
+    except ValueError:                      # a NUL in the name
+        fail(f"cannot read pattern file {shown_path(path)}: no file name holds a NUL character")
     return text[:-1] if text.endswith("\n") else text
 
 
@@ -223,7 +238,7 @@ min_length_option = click.option("--min-length", type=click.IntRange(min=0), def
                                  help="Shortest length to consider.")
 max_length_option = click.option("--max-length", type=click.IntRange(min=0), default=None,
                                  help="Longest length to consider.")
-out_option = click.option("--out", "-o", type=click.Path(path_type=Path), default=None,
+out_option = click.option("--out", "-o", type=FilePath(path_type=Path), default=None,
                           help="Write to FILE (atomically) instead of standard output.")
 
 

@@ -12,17 +12,17 @@ from pfuzz.boundary.suite import DEFAULT_LIMIT as DEFAULT_BOUNDARY_LIMIT
 from pfuzz.corpus.writer import step_count, write_corpus
 from pfuzz.errors import PfuzzWarning
 from pfuzz.profile.loader import load_profile
-from .common import note, report_errors, state_cap_option
+from .common import FilePath, note, report_errors, state_cap_option
 
 
 @click.command("corpus")
 @click.argument("profile_path", metavar="PROFILE",
-                type=click.Path(dir_okay=False, path_type=Path))
-@click.option("--out", "-o", metavar="DIR", type=click.Path(file_okay=False, path_type=Path),
+                type=FilePath(dir_okay=False, path_type=Path))
+@click.option("--out", "-o", metavar="DIR", type=FilePath(file_okay=False, path_type=Path),
               required=True, help="The folder to write (required; it appears all at once).")
 @click.option("--seed", type=click.IntRange(min=0), default=None,
               help="Seed of the one random generator. Default: the profile's seed key, else 0.")
-@click.option("--html", "html_out", metavar="FILE", type=click.Path(dir_okay=False, path_type=Path),
+@click.option("--html", "html_out", metavar="FILE", type=FilePath(dir_okay=False, path_type=Path),
               default=None, help="Also write an HTML report of the corpus's cases to FILE.")
 @click.option("--force", is_flag=True,
               help="Replace OUT if it holds an earlier corpus and nothing else (or is empty).")

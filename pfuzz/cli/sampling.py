@@ -39,6 +39,9 @@ def _bounds(lang, min_length, max_length) -> tuple[int, int]:
     if min_length is not None and max_length is not None and min_length > max_length:
         fail(f"--min-length {min_length} is greater than --max-length {max_length}")
     low, high = lang.counter.bounds(min_length, max_length)
+    if low > high:
+        fail(f"the length range {low} to {high} is empty (the longest string has length "
+             f"{high}); lower --min-length")
     if max_length is None and not lang.is_finite():
         note(f"the language is unbounded: lengths up to {high} ({UNBOUNDED_SPAN} above the "
               "shortest considered); set --max-length to change it")
