@@ -132,6 +132,14 @@ def _cached(key, make: Callable):
     return _WORKER_CACHE[key]
 
 
+def _close_cached_targets() -> None:
+    """End the validators this process started for in-process shards."""
+    for key in [k for k in _WORKER_CACHE if k[0] == "target"]:
+        close = getattr(_WORKER_CACHE.pop(key), "close", None)
+        if close:
+            close()
+
+
 def check_shard(shard: dict, valid_dfa, near_dfa, make_target: Callable) -> dict:
     """Run the validator over one shard; return what disagreed and what raised."""
     dfa = valid_dfa if shard["kind"] == "valid" else near_dfa
@@ -218,6 +226,7 @@ def run_exhaustive(plan: ExhaustivePlan, make_target: Callable, *,
                           (plan.specification.dfa, plan.near_misses.dfa, make_target),
                           settings=settings, fingerprint=fingerprint, on_result=arrived)
     result.seconds = time.perf_counter() - started
+    _close_cached_targets()
     for outcome in outcomes:
         result.add(outcome)
     key = lambda s: (len(s), s)  # noqa: E731  (shortlex, by code point)

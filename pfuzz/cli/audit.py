@@ -18,6 +18,7 @@ from pfuzz.learning import (DEFAULT_EXTRA_STATES, DEFAULT_INTERIOR_PROBES, DEFAU
 from pfuzz.audit.targets import (DEFAULT_TIMEOUT, CommandTarget, PythonTarget, RegexTarget,
                                  parse_exception_names)
 from .audit_report import DEFAULT_SHOW, report_dict, report_lines
+from .exhaustive import exhaustive_options, run_exhaustive_audit, target_factory
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
                      language_options, max_length_option, min_length_option, note, out_option,
                      read_pattern_file, report_errors, seed_option)
@@ -79,12 +80,14 @@ from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, form
 @out_option
 @click.option("--html", "html_out", type=click.Path(dir_okay=False, path_type=Path), default=None,
               help="Also write the report as one self-contained HTML page to FILE.")
+@exhaustive_options
 @report_errors
 def audit(profile, pattern, pattern_file, field, python_target, command, regex, mode, alphabet,
           flags, state_cap, min_length, max_length, valid, rejects, distance, reject_alphabet,
           no_boundary, boundary_limit, no_hostile, no_case_flip, reject_on, timeout, no_learn,
           learn_queries, learn_states, learn_seconds, extra_states, interior_probes, seed, show, fmt,
-          out, html_out=None):
+          out, html_out=None, exhaustive=False, max_cases=None, workers=None, scheduler=None,
+          state_dir=None):
     """Find the strings a validator gets wrong, against a PROFILE field or a --pattern.
 
     PROFILE is a TOML file or the name of a shipped profile (pfuzz profiles lists them).
@@ -107,6 +110,12 @@ def audit(profile, pattern, pattern_file, field, python_target, command, regex, 
     """
     spec, label, field_distance, kinds, field_limit = _specification(
         profile, pattern, pattern_file, field, alphabet, flags, state_cap)
+    if exhaustive:
+        _exhaustive(spec, label, python_target, command, regex, mode, timeout, reject_on,
+                    distance or field_distance, reject_alphabet, min_length, max_length,
+                    max_cases, workers, scheduler, state_dir, show, fmt, out)
+    elif workers is not None or scheduler or state_dir:
+        fail("--workers, --scheduler and --state apply to --exhaustive")
     settings = Settings(valid=valid, rejects=rejects, seed=seed,
                         distance=distance or field_distance, kinds=kinds,
                         reject_alphabet=reject_alphabet, boundary=not no_boundary,
@@ -138,6 +147,19 @@ def audit(profile, pattern, pattern_file, field, python_target, command, regex, 
     else:
         emit("\n".join(report_lines(report, show)) + "\n", out)
     sys.exit(EXIT_OK if report.agrees else EXIT_DIFFERENT)
+
+
+def _exhaustive(spec, label, python_target, command, regex, mode, timeout, reject_on, distance,
+                reject_alphabet, min_length, max_length, max_cases, workers, scheduler,
+                state_dir, show, fmt, out):
+    if fmt not in ("text", "json"):
+        fail("--exhaustive writes text or json")
+    _target(python_target, command, regex, mode, timeout, reject_on).close()  # fails early
+    make = target_factory(python_target, command, regex, mode, timeout, reject_on)
+    run_exhaustive_audit(spec, label, make, distance=distance, reject_alphabet=reject_alphabet,
+                         min_length=min_length, max_length=max_length, max_cases=max_cases,
+                         workers=workers, scheduler=scheduler, state_dir=state_dir, show=show,
+                         fmt=fmt, out=out)
 
 
 def _run_with_progress(spec, target, settings, label) -> AuditReport:
