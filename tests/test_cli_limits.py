@@ -4,6 +4,7 @@ and every error is one line."""
 
 from __future__ import annotations
 
+import json
 import textwrap
 import weakref
 from pathlib import Path
@@ -106,6 +107,17 @@ def test_audit_of_a_profile_field_honours_the_cap(tmp_path):
     line = one_error_line(run("audit", profile(tmp_path), "--regex", SMALL_PATTERN,
                               "--state-cap", str(SMALL_CAP)))
     assert f"raise --state-cap (now {SMALL_CAP})" in line
+
+
+def test_audit_compiles_a_regex_validator_under_the_cap_too():
+    # '(a|b)*a(a|b){5}' needs 64 states (2^6: the last six letters); '[ab]{3}' needs 4.
+    result = run("audit", "--pattern", "[ab]{3}", "--alphabet", "[ab]", "--regex",
+                 "(a|b)*a(a|b){5}", "--state-cap", "30", "--format", "json")
+    report = json.loads(result.stdout)
+    assert report["exact"] is None and "more than 30 states" in report["exact_note"]
+    uncapped = json.loads(run("audit", "--pattern", "[ab]{3}", "--alphabet", "[ab]", "--regex",
+                              "(a|b)*a(a|b){5}", "--format", "json").stdout)
+    assert uncapped["exact"] is not None
 
 
 # -- memory estimates -------------------------------------------------------------------

@@ -418,7 +418,7 @@ def exact_comparison(spec: Language, target: RegexTarget,
                      alphabet: CharSet) -> tuple[Comparison | None, str]:
     """Specification − validator (wrong rejects) and validator − specification (wrong accepts)."""
     try:
-        accepted = target.language(alphabet)
+        accepted = target.language(alphabet, spec.state_cap)
     except (PatternError, StateLimitError) as error:
         return None, f"no exact comparison: pfuzz cannot compile the validator's regex ({error})"
     return compare(lift(spec, alphabet), accepted), ""

@@ -379,12 +379,16 @@ class RegexTarget(Target):
         call = self._call
         return [REJECTED if call(text) is None else ACCEPTED for text in texts]
 
-    def language(self, alphabet):
-        """The exact language this call accepts over ``alphabet`` (a PatternError if not regular).
+    def language(self, alphabet, state_cap: int | None = None):
+        """The exact language this call accepts over ``alphabet`` (a PatternError if not regular;
+        a StateLimitError past ``state_cap`` states, default ``DEFAULT_STATE_CAP``).
 
         The compiler models the call mode itself (``re.match`` is the full match
         of ``R(?s:.*)``, so ``R$`` keeps its meaning), which L(R)·U* would not.
         """
         from pfuzz.language import compile as compile_pattern
 
-        return compile_pattern(self.pattern, alphabet, mode=self.mode)
+        from pfuzz.automata.dfa import DEFAULT_STATE_CAP
+
+        return compile_pattern(self.pattern, alphabet, mode=self.mode,
+                               state_cap=state_cap or DEFAULT_STATE_CAP)
