@@ -228,7 +228,11 @@ def _write(path: Path, text: str) -> str:
 
 @pytest.mark.parametrize("args", [["sample", "--pattern-file", "a\x00b"],
                                   ["sample", "a", "--out", "a\x00b"],
-                                  ["corpus", "p\x00.toml", "--out", "x"]])
+                                  ["corpus", "p\x00.toml", "--out", "x"],
+                                  ["diff", "--pattern-file", "a\x00b", "x"],
+                                  ["audit", "p\x00.toml", "--regex", "a"],
+                                  ["learn", "--pattern-file", "a\x00", "--regex", "a"],
+                                  ["report", "--pattern", "a", "--out", "a\x00b"]])
 def test_a_nul_in_a_path_is_a_usage_error(args):
     result = run(*args)
     assert result.exit_code == 2 and result.exception is not None

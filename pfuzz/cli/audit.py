@@ -22,12 +22,13 @@ from .exhaustive import exhaustive_options, run_exhaustive_audit, target_factory
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
                      language_options, max_length_option, min_length_option, note, out_option,
                      read_pattern_file, report_errors, seed_option)
+from .common import FilePath
 
 
 @click.command("audit")
-@click.argument("profile", required=False, type=click.Path(dir_okay=False, path_type=Path))
+@click.argument("profile", required=False, type=FilePath(dir_okay=False, path_type=Path))
 @click.option("--pattern", "-p", help="The specification as a pattern (instead of a PROFILE).")
-@click.option("--pattern-file", type=click.Path(dir_okay=False, path_type=Path),
+@click.option("--pattern-file", type=FilePath(dir_okay=False, path_type=Path),
               help="Read the specification pattern from FILE.")
 @click.option("--field", help="The profile field to audit (needed when the profile has several).")
 @click.option("--target", "python_target", metavar="MODULE:FUNCTION",
@@ -78,7 +79,7 @@ from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, form
               help="Disagreements listed one by one per group; larger groups are summarised.")
 @format_option(("text", "json", "junit", "sarif"), "text")
 @out_option
-@click.option("--html", "html_out", type=click.Path(dir_okay=False, path_type=Path), default=None,
+@click.option("--html", "html_out", type=FilePath(dir_okay=False, path_type=Path), default=None,
               help="Also write the report as one self-contained HTML page to FILE.")
 @exhaustive_options
 @report_errors

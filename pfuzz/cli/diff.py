@@ -12,12 +12,13 @@ from pfuzz.audit.comparison import DEFAULT_EXAMPLES, Comparison, Side, compare
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, escape_text, fail,
                      format_option, language_options, max_length_option, out_option,
                      read_pattern_file, report_errors)
+from .common import FilePath
 
 
 @click.command("diff")
 @click.argument("patterns", metavar="PATTERN_A PATTERN_B", nargs=-1)
 @click.option("--pattern-file", "pattern_files", multiple=True,
-              type=click.Path(dir_okay=False, path_type=Path),
+              type=FilePath(dir_okay=False, path_type=Path),
               help="Read a pattern from FILE instead (give it once for B, twice for A and B).")
 @language_options
 @max_length_option

@@ -20,12 +20,13 @@ from pfuzz.syntax.alphabet import resolve_alphabet
 from .audit import _target
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
                      language_options, out_option, read_pattern_file, report_errors, seed_option)
+from .common import FilePath
 from .diff import quote, side_lines
 
 
 @click.command("learn")
 @click.option("--pattern", "-p", help="The specification as a pattern (or PROFILE:FIELD).")
-@click.option("--pattern-file", type=click.Path(dir_okay=False, path_type=Path),
+@click.option("--pattern-file", type=FilePath(dir_okay=False, path_type=Path),
               help="Read the specification pattern from FILE.")
 @click.option("--target", "python_target", metavar="MODULE:FUNCTION",
               help="A Python function, imported from the current directory, called with one string.")

@@ -8,6 +8,7 @@ from pathlib import Path
 import click
 
 from .common import compile_language, fail, language_options, note, report_errors, seed_option
+from .common import FilePath
 
 
 @click.command("report")
@@ -15,7 +16,7 @@ from .common import compile_language, fail, language_options, note, report_error
 @click.option("--pattern", "-p", help="A pattern (or PROFILE:FIELD) instead of a PROFILE.")
 @click.option("--field", "fields", multiple=True,
               help="Only this field of the PROFILE (repeatable). Default: every field.")
-@click.option("--audit", "audit_file", type=click.Path(dir_okay=False, path_type=Path),
+@click.option("--audit", "audit_file", type=FilePath(dir_okay=False, path_type=Path),
               help="Add the findings of an audit: the file 'pfuzz audit --format json' wrote.")
 @language_options
 @click.option("--valid", type=click.IntRange(min=0), default=100, show_default=True,
@@ -23,7 +24,7 @@ from .common import compile_language, fail, language_options, note, report_error
 @click.option("--rejects", type=click.IntRange(min=0), default=100, show_default=True,
               help="Near-miss rejects shown per field.")
 @seed_option
-@click.option("--out", "-o", type=click.Path(dir_okay=False, path_type=Path), required=True,
+@click.option("--out", "-o", type=FilePath(dir_okay=False, path_type=Path), required=True,
               help="The HTML file to write (atomically).")
 @click.pass_context
 @report_errors
