@@ -40,7 +40,10 @@ field to the last and takes each case as its field is written, and checksums
 are computed on the way out. What stays in memory is one field's strings at a
 time: its valid strings and its rejects, each with witness and edit script
 (``pfuzz.base.resources.REJECT_BYTES`` apiece), which must all be at hand to be
-de-duplicated and sorted before the first is written; and a record's rows. So
+de-duplicated and sorted before the first is written; and a record's rows. Before
+any work, ``check_memory`` estimates each of these from the field's counts and
+longest length (``pfuzz.base.resources``) and refuses a profile past the memory
+budget with a ``ResourceLimitError`` naming the field and the keys to lower. So
 peak memory grows with the largest field, not with the corpus: ``python -m
 pfuzz.benchmarks corpus`` gives peak memory and CPU time for the demo profile
 and for five fields of 10^5 valid strings and 10^5 rejects each.
