@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import functools
 import sys
+import unicodedata
 
 import click
 
@@ -96,15 +97,23 @@ def _text_after_pattern_file(func):
     return wrapper
 
 
+#: Nearest valid strings ``explain --all`` lists by default.
+DEFAULT_ALL_LIMIT = 20
+
+
 @click.command("explain")
 @_text_after_pattern_file
 @pattern_input
 @click.argument("text", required=False)
 @language_options
+@click.option("--all", "show_all", is_flag=True,
+              help="Also list the other valid strings at the same least distance.")
+@click.option("--limit", type=click.IntRange(min=1), default=DEFAULT_ALL_LIMIT, show_default=True,
+              help="Most nearest valid strings --all lists.")
 @format_option(("text", "json"), "text")
 @out_option
 @report_errors
-def explain(pattern, text, alphabet, flags, state_cap, fmt, out):
+def explain(pattern, text, alphabet, flags, state_cap, show_all, limit, fmt, out):
     """Say whether PATTERN accepts TEXT and, if not, the nearest valid string and the edits.
 
     The nearest valid string (witness) is the shortest, then alphabetically
@@ -119,14 +128,44 @@ def explain(pattern, text, alphabet, flags, state_cap, fmt, out):
     """
     lang = compile_language(pattern, alphabet, flags, state_cap)
     why = lang.explain(text)
+    others, complete = _all_nearest(lang, why, limit) if show_all else ([], True)
     if fmt == "json":
         document = {"pattern": lang.pattern, "alphabet": lang.alphabet_name, **why.as_dict(),
                     "edits_text": [str(e) for e in why.edits]}
+        if show_all:
+            document.update(nearest_all=others, nearest_all_complete=complete)
         emit(json_text(document, indent=2, sort_keys=False) + "\n", out)
     else:
-        emit(render_explanation(why), out)
+        emit(render_explanation(why) + (_all_lines(why, others, complete) if show_all else ""),
+             out)
     if not why.accepted:
         sys.exit(EXIT_DIFFERENT)
+
+
+def _all_nearest(lang, why, limit: int) -> tuple[list[str], bool]:
+    """The witness first, then the other nearest valid strings found (``pfuzz.nearmiss.alternatives``)."""
+    if why.accepted or why.witness is None:
+        return [], True
+    from pfuzz.nearmiss.alternatives import nearest_strings
+
+    found, complete = nearest_strings(lang.dfa, why.text, why.distance, limit)
+    rest = sorted((s for s in found if s != why.witness), key=lambda s: (len(s), s))
+    return [why.witness, *rest][:limit], complete
+
+
+def _all_lines(why, others: list[str], complete: bool) -> str:
+    if why.accepted:
+        return ""
+    edits = "edit" if why.distance == 1 else "edits"
+    head = (f"all nearest ({len(others)} valid strings at {why.distance} {edits})" if complete
+            else f"all nearest (the first {len(others)} valid strings at {why.distance} {edits}; "
+                 "there are more: --limit N)")
+    return head + "\n" + "".join(f"          {escape_text(s)}\n" for s in others)
+
+
+def _width(piece: str) -> int:
+    """Terminal columns: two for wide and full-width characters (as PatternError.caret)."""
+    return sum(2 if unicodedata.east_asian_width(ch) in "WF" else 1 for ch in piece)
 
 
 def render_explanation(why) -> str:
@@ -136,7 +175,7 @@ def render_explanation(why) -> str:
         return f"accepted  {''.join(shown)}\n"
     columns = [0]
     for piece in shown:
-        columns.append(columns[-1] + len(piece))
+        columns.append(columns[-1] + _width(piece))
     marks = set()
     for edit in why.edits:
         marks.update(range(edit.position, edit.position + (2 if edit.kind == "swap" else 1)))

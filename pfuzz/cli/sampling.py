@@ -97,8 +97,8 @@ def _render_counts(lang, table: dict[int, int], fmt: str, defaulted: bool) -> st
         return "\r\n".join(rows) + "\r\n"
     width = max(len("length"), len(str(max(table))))
     lines = [f"{'length':>{width}}  count"]
-    lines += [f"{k:>{width}}  {v}" for k, v in table.items()]
-    lines.append(f"{'total':>{width}}  {total}")
+    lines += [f"{k:>{width}}  {v:,}" for k, v in table.items()]     # separators as diff, audit
+    lines.append(f"{'total':>{width}}  {total:,}")
     return "\n".join(lines) + "\n"
 
 
