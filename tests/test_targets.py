@@ -96,7 +96,7 @@ def test_timeout_is_kept_when_a_descendant_holds_the_output_open():
 
 
 @pytest.mark.parametrize("cmd, message", [
-    ("yes 1", "too many answers: the command answered more than 2 lines for 2 strings"),
+    ("yes 1", "too many answers: the command "),  # answered more, or wrote before it was asked
     ("sh -c 'yes 1 | tr -d \"\\n\"'", "wrote an answer line longer than 1,024 bytes"),
     ("sh -c 'cat >/dev/null; yes 1'", "too many answers"),
 ])
