@@ -6,8 +6,8 @@ category in both modes, then the case set). It is measured three ways:
 
 - ``table``: the shipped table of the running interpreter, its bytecode cached (as after
   ``pip install``; the cache lives in a private ``PYTHONPYCACHEPREFIX`` warmed first);
-- ``table, no bytecode``: the same with bytecode writing off, so the data module is compiled
-  from source (a checkout run with ``PYTHONDONTWRITEBYTECODE``);
+- ``table, no bytecode``: the same with an empty bytecode cache and writing off, so the data
+  module is compiled from source (a checkout run with ``PYTHONDONTWRITEBYTECODE``);
 - ``scan``: the fallback for an interpreter with no shipped table, which asks ``re`` about
   every code point (what every interpreter paid before the tables).
 
@@ -57,12 +57,10 @@ print(json.dumps([cpu * 1e3, wall * 1e3, peak / 1024]))
 
 
 def _once(call: str, way: str, cache: str) -> list[float]:
-    env = {k: v for k, v in os.environ.items()
-           if k not in ("PYTHONDONTWRITEBYTECODE", "PYTHONPYCACHEPREFIX")}
+    env = {k: v for k, v in os.environ.items() if k != "PYTHONDONTWRITEBYTECODE"}
+    env["PYTHONPYCACHEPREFIX"] = cache if way != "no bytecode" else os.path.join(cache, "empty")
     if way == "no bytecode":
         env["PYTHONDONTWRITEBYTECODE"] = "1"
-    else:
-        env["PYTHONPYCACHEPREFIX"] = cache
     done = subprocess.run([sys.executable, "-c", _BODY.format(call=call), way],
                           capture_output=True, text=True, cwd=ROOT, env=env, check=False)
     if done.returncode != 0:

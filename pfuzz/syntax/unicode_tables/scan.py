@@ -29,8 +29,8 @@ from typing import Mapping
 
 import _sre
 
-__all__ = ["TABLE_NAMES", "case_sensitive_ranges", "category_ranges", "compute",
-           "every_code_point_text", "flat", "pairs", "problems", "table_name"]
+__all__ = ["CASE_SENSITIVE", "TABLE_NAMES", "case_sensitive_ranges", "category_ranges",
+           "compute", "every_code_point_text", "flat", "pairs", "problems", "table_name"]
 
 Ranges = tuple[tuple[int, int], ...]
 
