@@ -1,17 +1,21 @@
 """Equivalence queries without an oracle of equivalence: tests derived from two automata.
 
-Three families of test words, each generated lazily (a test is made when it is asked for, so
-memory stays linear in the hypothesis, never in the size of a suite):
+Four families of test words. The state tests and the probes are generated lazily (a test is
+made when it is asked for, so memory stays linear in the hypothesis, never in the size of a
+suite); the differences are a list, linear in the product's size:
 
-- ``difference_witnesses(model, specification)``: the exact comparison with the
+- ``difference_witnesses(model, specification, d)``: the exact comparison with the
   specification. For every reachable pair of states of the product automaton (Rabin & Scott,
-  1959) from which a difference can be reached, the shortlex-least string of the symmetric
-  difference that passes through that pair: its shortlex-least access string, then its
-  shortlex-least completion (a breadth-first search backwards from the pairs that disagree).
-  The first of them is the shortlex-least difference (``pfuzz.automata.algebra.distinguish``);
-  the others are the next differences, one per region of the product, so that one confirmed
-  disagreement does not hide the others. At most one word per product pair; cost
-  O(pairs × classes) plus the words' lengths.
+  1959) from which a difference can be reached, and every path of up to ``d`` classes out of
+  it, the shortlex-least string of the symmetric difference that passes through the pair and
+  then the path: the pair's shortlex-least access string, the path, and the shortlex-least
+  completion (a breadth-first search backwards from the pairs that disagree). The first of
+  them is the shortlex-least difference (``pfuzz.automata.algebra.distinguish``); the others
+  are the next differences, several per region of the product, so that one confirmed
+  disagreement does not hide the others, even where the validator tells apart states that
+  both the model and the specification merge (a leap day in a year the validator otherwise
+  refuses: the learner asks with ``d = 1`` and, once that finds nothing, ``d = k + 1``).
+  Cost: O(pairs × classes^d) words.
 - ``state_tests(tree, hypothesis, n)``: the words ``access(q)·m·w`` for every state ``q``,
   every word ``m`` of ``n`` representatives, and every suffix ``w`` of the identifier of the
   state that ``access(q)·m`` reaches in the hypothesis. These are the tests of the Wp-method
@@ -54,22 +58,27 @@ __all__ = ["difference_witnesses", "matched_states", "state_tests", "probe_tests
            "specification_probes"]
 
 
-def difference_witnesses(a: DFA, b: DFA) -> list[tuple[str, bool]]:
-    """Shortlex-least differences of ``a`` and ``b``: through every reachable product pair, and
-    through every transition out of it; deduplicated, in shortlex order (none when equal), each
-    with whether ``b`` accepts it.
+def difference_witnesses(a: DFA, b: DFA, depth: int = 1) -> list[tuple[str, bool]]:
+    """Shortlex-least differences of ``a`` and ``b`` through every reachable product pair and
+    every path of at most ``depth`` classes out of it; deduplicated, in shortlex order (none
+    when equal), each with whether ``b`` accepts it.
 
     ``a``'s classes should refine ``b``'s (the hypothesis over the learner's classes), so that
     every class of the learner is tried after every pair.
     """
     graph, suffix, end = _product(a, b)
     words: dict[str, bool] = {}
-    for i, row in enumerate(graph.successors):
-        if suffix[i] is not None:
-            words[graph.access[i] + suffix[i]] = graph.nodes[end[i]][1] in b.accepting
-        for char, j in row:
-            if suffix[j] is not None:
-                words[graph.access[i] + char + suffix[j]] = graph.nodes[end[j]][1] in b.accepting
+    for i in range(len(graph.nodes)):
+        if suffix[i] is None:
+            continue
+        paths = [("", i)]
+        for _ in range(depth + 1):
+            grown = []
+            for path, j in paths:
+                words[graph.access[i] + path + suffix[j]] = graph.nodes[end[j]][1] in b.accepting
+                grown.extend((path + char, k) for char, k in graph.successors[j]
+                             if suffix[k] is not None)
+            paths = grown
     return sorted(words.items(), key=lambda item: (len(item[0]), item[0]))
 
 

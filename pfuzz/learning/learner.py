@@ -128,8 +128,22 @@ class _Learning:
 
     def _snapshot(self) -> None:
         self.hypothesis = self.tree.hypothesis()
+        self._columns: dict[str, int] = {}
         self.classes = [self.symbols.classes[a] for a in self.symbols.ordered()]
         self.depth = None
+
+    def predict(self, word: str) -> bool:
+        """The hypothesis' answer (its classes looked up once per character, not per use)."""
+        hypothesis, columns, state = self.hypothesis, self._columns, 0
+        table = hypothesis.table
+        for ch in word:
+            column = columns.get(ch)
+            if column is None:
+                column = columns[ch] = hypothesis.class_of(ch)
+            if column < 0:
+                return False
+            state = table[state][column]
+        return state in hypothesis.accepting
 
     def _refuted(self) -> bool:
         """Run the checks in order; True when one of them refined the hypothesis."""
@@ -150,29 +164,41 @@ class _Learning:
     def _against_specification(self) -> bool:
         """Ask the differences with the specification; use each that refutes the hypothesis.
 
-        The list of differences is worked through to its end, the hypothesis refined on the
-        way (a word is asked only while it is still a difference); it is computed again only
-        when the hypothesis has changed.
+        The differences through every product pair and every single class after it are worked
+        through to their end, the hypothesis refined on the way (a word is asked only while it
+        is still a difference), and computed again while that refines the hypothesis; then
+        once more with paths of k + 1 classes (k the extra states), back to the single class
+        if that refines it.
         """
         changed = False
+        depth = 1
         while True:
-            spec_answers = dict(difference_witnesses(self.hypothesis, self.spec.dfa))
-            words = iter(spec_answers)
-            refined = False
-            try:
-                while self._use(self._failures(self._still_different(words, spec_answers))):
-                    refined = changed = True
-            finally:  # a difference answered unlike the specification is a confirmed one
-                answers = self.oracle.answers
-                self.confirmed.update(w for w, spec in spec_answers.items()
-                                      if answers.get(w, spec) != spec)
-            if not refined:
+            refined = self._differences(depth)
+            changed = changed or refined
+            if refined:
+                depth = 1
+            elif depth < self.extra_states + 1:
+                depth = self.extra_states + 1
+            else:
                 return changed
+
+    def _differences(self, depth: int) -> bool:
+        spec_answers = dict(difference_witnesses(self.hypothesis, self.spec.dfa, depth))
+        words = iter(spec_answers)
+        refined = False
+        try:
+            while self._use(self._failures(self._still_different(words, spec_answers))):
+                refined = True
+        finally:  # a difference answered unlike the specification is a confirmed one
+            answers = self.oracle.answers
+            self.confirmed.update(w for w, spec in spec_answers.items()
+                                  if answers.get(w, spec) != spec)
+        return refined
 
     def _still_different(self, words, spec_answers) -> Iterator[tuple[str, bool]]:
         """The words on which the current hypothesis and the specification still differ."""
         for word in words:
-            model = self.hypothesis.accepts(word)
+            model = self.predict(word)
             if model != spec_answers[word]:
                 yield word, model
 
@@ -194,7 +220,7 @@ class _Learning:
 
     def _extra_tests(self) -> Iterator[tuple[str, bool]]:
         for word in self.tests:
-            yield word, self.hypothesis.accepts(word)
+            yield word, self.predict(word)
 
     # -- asking tests in rounds ----------------------------------------------------------------
     def _failures(self, tests, passes=lambda expected, answer: expected == answer) -> list:
@@ -250,7 +276,7 @@ class _Learning:
 
     def _counterexample(self, word: str) -> None:
         oracle, symbols = self.oracle, self.symbols
-        while oracle.accepts(word) != self.hypothesis.accepts(word):
+        while oracle.accepts(word) != self.predict(word):
             self.counterexamples += 1
             abstract = symbols.abstract(word)
             concrete, represented = oracle.ask([word, abstract])

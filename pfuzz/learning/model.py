@@ -60,8 +60,9 @@ class LearnedModel:
                     f"characters, or at all of them where it has fewer) and needs at most "
                     f"{self.hypothesis_states + depth} states ({self._count(depth)})")
         if depth < self.extra_states and self.budget_exhausted:
-            sentence += (f"; testing for {self.extra_states} extra states stopped when the "
-                         f"{BUDGET_WORDS[self.budget_exhausted]} budget ran out")
+            plural = "" if self.extra_states == 1 else "s"
+            sentence += (f"; testing for {self.extra_states} extra state{plural} stopped when "
+                         f"the {BUDGET_WORDS[self.budget_exhausted]} budget ran out")
         return sentence
 
     def _count(self, depth: int) -> str:
