@@ -16,6 +16,7 @@ from pfuzz.base.jsonlines import json_text
 from pfuzz.errors import TargetError
 from pfuzz.learning import (DEFAULT_EXTRA_STATES, DEFAULT_INTERIOR_PROBES, DEFAULT_MAX_QUERIES,
                             DEFAULT_MAX_STATES, learn as learn_model)
+from pfuzz.learning.model import BUDGET_WORDS
 from pfuzz.syntax.alphabet import resolve_alphabet
 from .audit import _target
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
@@ -108,7 +109,7 @@ def learn(pattern, pattern_file, python_target, command, regex, mode, alphabet, 
     else:
         lines = [f"specification: {text}", f"validator: {target.label}",
                  f"alphabet: {model.specification.alphabet_name}",
-                 *model_lines(model, pattern_text or f"({pattern_note})")]
+                 *model_lines(model, _pattern_label(pattern_text, pattern_note))]
         for title, side in zip(("wrongly accepted (model - specification)",
                                 "wrongly rejected (specification - model)"), sides):
             lines += ["", *side_lines(title, side)]
@@ -120,11 +121,11 @@ def model_lines(model, pattern: str) -> list[str]:
     """The facts of a learned model, one a line."""
     verdict = ("equal to the specification" if model.equals_specification
                else "different from the specification")
-    budget = (f"the {model.budget_exhausted} budget ran out" if model.budget_exhausted
-              else "none ran out")
+    budget = (f"the {BUDGET_WORDS[model.budget_exhausted]} budget ran out"
+              if model.budget_exhausted else "none ran out")
     confirmed = ", ".join(quote(w) for w in model.confirmed_differences[:DEFAULT_EXAMPLES])
     more = len(model.confirmed_differences) - DEFAULT_EXAMPLES
-    lines = [f"model: {model.states} states, {verdict}",
+    lines = [f"model: {model.states} state{'' if model.states == 1 else 's'}, {verdict}",
              f"model pattern: {pattern}",
              f"classes: {len(model.classes)}: "
              + ", ".join(_label(c.chars) for c in model.classes),
@@ -135,6 +136,12 @@ def model_lines(model, pattern: str) -> list[str]:
     if confirmed:
         lines.append(f"confirmed differences: {confirmed}" + (f" and {more:,} more" if more > 0 else ""))
     return lines
+
+
+def _pattern_label(pattern: str | None, note: str) -> str:
+    if pattern is None:
+        return note
+    return pattern if pattern else '(the empty pattern: only "")'
 
 
 def _label(chars: CharSet) -> str:

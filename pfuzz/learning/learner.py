@@ -98,7 +98,8 @@ def _widen(lang: Language, alphabet: CharSet) -> Language:
         return lang
     rows = tuple((*row, DEAD) for row in lang.dfa.table)
     dfa = minimise(DFA(alphabet, (*lang.dfa.classes, extra), rows, lang.dfa.accepting))
-    return Language(dfa, pattern=lang.pattern, flags=lang.flags, alphabet_name=alphabet.describe())
+    label = f"{lang.alphabet_name} + {extra.describe(limit=16)}"
+    return Language(dfa, pattern=lang.pattern, flags=lang.flags, alphabet_name=label)
 
 
 class _Learning:

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 from pfuzz.language import Language
 from pfuzz.learning.symbols import SymbolClass
 
-__all__ = ["LearnedModel"]
+__all__ = ["LearnedModel", "BUDGET_WORDS"]
 
 #: What each budget is called in a sentence.
 BUDGET_WORDS = {"queries": "query", "states": "state", "seconds": "time"}
@@ -77,11 +77,12 @@ class LearnedModel:
     def _no_guarantee(self) -> str:
         budget = BUDGET_WORDS.get(self.budget_exhausted or "", "")
         if self.counterexample_pending:
-            why = "a string on which the validator and the model disagree was found"
+            when = ("while the model was being corrected for a string on which the validator "
+                    "and the model disagree")
         else:
-            why = "the model was tested"
-        return (f"none: the {budget} budget ran out before {why}; the model is what was "
-                f"learned until then and may be wrong either way")
+            when = "before the model was tested"
+        return (f"none: the {budget} budget ran out {when}; the model is what was learned "
+                f"until then and may be wrong either way")
 
     def as_dict(self) -> dict:
         return {
