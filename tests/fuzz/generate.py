@@ -13,6 +13,7 @@ import random
 LITERALS = list("abcxyzAZ019_-@ ,;'\"/") + ["é", "ß", "İ", "\u212a", "ſ", "Ω", "中", "😀",
                                              "\t", "\n", "\r", "\x00", "\u2028", "\u00a0"]
 SPECIALS = list(".^$*+?{}[]\\|()")
+ASCII_LITERALS = 20                             #: the first LITERALS are printable ASCII
 CATEGORIES = ["\\d", "\\D", "\\w", "\\W", "\\s", "\\S"]
 ANCHORS = ["^", "$", "\\A", "\\Z", "\\b", "\\B"]
 JUNK = ["(", ")", "[", "]", "{", "}", "{2,1}", "*", "+?", "\\", "(?", "(?P<", "\\1", "\\9",
@@ -24,13 +25,13 @@ EDIT_KINDS = ["delete", "insert", "replace", "swap"]
 
 # -- patterns -----------------------------------------------------------------------
 
-def _quantifier(r: random.Random) -> str:
+def _quantifier(r: random.Random, tame: bool = False) -> str:
     small = r.randint(0, 4)
     if r.random() < 0.03:                       # a large count now and then
         small = r.choice([40, 200, 1000])
     base = r.choice(["*", "+", "?", f"{{{small}}}", f"{{{small},{small + r.randint(0, 4)}}}",
                      f"{{{small},}}", f"{{,{small + 1}}}"])
-    return base + r.choice(["", "", "", "?", "+"])
+    return base + r.choice(["", "", "", "?"] + ([] if tame else ["+"]))
 
 
 def _class(r: random.Random) -> str:
@@ -54,13 +55,14 @@ def _atom(r: random.Random, depth: int, tame: bool) -> str:
     if depth > 0 and roll < 0.25:
         opener = r.choice(["(", "(?:", f"(?P<g{r.randrange(10**6)}>", "(?=", "(?!", "(?<=",
                            "(?<!", "(?>", "(?i:", "(?-i:", "(?s:"])
-        if tame and opener.startswith("(?") and opener[2] in "=!<" and r.random() < 0.8:
+        if tame and opener.startswith("(?") and opener[2] in "=!<>" and r.random() < 0.9:
             opener = "(?:"                              # fewer look-arounds: fewer empty fields
         if tame and opener.startswith("(?<"):
             return opener + r.choice("abc1") + ")"     # a look-behind of fixed width
         return opener + pattern_text(r, depth - 1, tame, top=False) + ")"
     if roll < 0.5:
-        char = r.choice(LITERALS)
+        ascii_only = tame and r.random() < 0.9  # most tame fields stay inside 'printable'
+        char = r.choice(LITERALS[:ASCII_LITERALS] if ascii_only else LITERALS)
         return "\\" + char if char in SPECIALS else char
     if roll < 0.6:
         return "\\" + r.choice(SPECIALS)
@@ -86,7 +88,7 @@ def pattern_text(r: random.Random, depth: int = 3, tame: bool = False, top: bool
             atom = _atom(r, depth, tame)
             repeatable = not (atom in ANCHORS or atom.startswith(("(?=", "(?!", "(?<")))
             if r.random() < 0.3 and (repeatable or r.random() < 0.1):
-                atom += _quantifier(r)
+                atom += _quantifier(r, tame)
             pieces.append(atom)
         branches.append("".join(pieces))
     text = "|".join(branches)
