@@ -30,9 +30,16 @@ from .common import FilePath, note, report_errors, state_cap_option
 @click.option("--boundary-limit", type=click.IntRange(min=0), default=None,
               help="Boundary cases kept per field (default: each field's boundary_limit key, "
                    f"else {DEFAULT_BOUNDARY_LIMIT:,}).")
+@click.option("--shards", type=click.IntRange(min=1), default=None, metavar="K",
+              help="Keyed sampling, each field's valid strings and rejects split into K files "
+                   "(the union is the same for every K; no cases.csv, qa.xlsx or record).")
+@click.option("--workers", type=click.IntRange(min=0), default=0, show_default=True,
+              help="With --shards: make shards on a local Dask cluster of N processes "
+                   "(0: in this process).")
 @click.pass_context
 @report_errors
-def corpus(ctx, profile_path, out, seed, force, boundary_limit, state_cap, html_out=None):
+def corpus(ctx, profile_path, out, seed, force, boundary_limit, state_cap, html_out=None,
+           shards=None, workers=0):
     """Write valid strings, near-miss rejects and boundary cases for every field of PROFILE.
 
     PROFILE is a TOML file describing fields (pattern, require, forbid,
@@ -47,8 +54,11 @@ def corpus(ctx, profile_path, out, seed, force, boundary_limit, state_cap, html_
     Example:
       pfuzz corpus profiles/demo.toml --out demo-corpus
       pfuzz corpus ipv4 --out ipv4-corpus --seed 7 --force
+      pfuzz corpus time24 --out time-corpus --shards 4
     """
     profile = load_profile(profile_path, state_cap)
+    if shards is not None:
+        return _run_sharded(profile, out, seed, force, boundary_limit, shards, workers, html_out)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", PfuzzWarning)
         summary = _run(profile, out, seed, force, boundary_limit)
@@ -71,6 +81,28 @@ def _run(profile, out: Path, seed, force: bool, boundary_limit=None):
                            item_show_func=lambda label: label) as bar:
         return write_corpus(profile, out, seed, force=force, boundary_limit=boundary_limit,
                             progress=lambda label: bar.update(1, label))
+
+
+def _run_sharded(profile, out: Path, seed, force: bool, boundary_limit, shards: int,
+                 workers: int, html_out) -> None:
+    from pfuzz.corpus.shards import write_sharded_corpus
+    from pfuzz.errors import ArgumentError
+    from pfuzz.scale import RunSettings
+
+    if html_out is not None:
+        raise ArgumentError("--html reads a corpus's single files; it cannot be combined "
+                            "with --shards")
+    summary = write_sharded_corpus(profile, out, seed, shards=shards, force=force,
+                                   boundary_limit=boundary_limit,
+                                   settings=RunSettings(workers=workers))
+    total = sum(info["bytes"] for info in summary.files.values())
+    note(f"wrote {summary.out_dir}/ ({len(summary.files)} files, {_size(total)}, "
+         f"seed {summary.seed}, {shards} shards, keyed sampling)")
+    for name, counts in summary.fields.items():
+        click.echo(f"  {name}: {counts['valid']:,} valid, {counts['rejects']:,} rejects, "
+             f"{counts['boundary']:,} boundary", err=True)
+    if profile.record:
+        note(f"record {profile.record.name} is not written with --shards")
 
 
 def _print_summary(summary) -> None:

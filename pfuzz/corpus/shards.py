@@ -76,9 +76,11 @@ from pfuzz.base.files import Checksum, atomic_writer
 from pfuzz.base.jsonlines import json_text, jsonl_line
 from pfuzz.corpus.formats import CHECKSUMS_NAME, FORMAT_TAG, MANIFEST_NAME, Staging, check_target
 from pfuzz.corpus.rows import edit_list
+from pfuzz.base.randomness import RandomSource
 from pfuzz.corpus.writer import (FieldCases, _boundary_items, _child_seeds, _choose_seed,
-                                 _field_manifest, _versions, _window)
-from pfuzz.errors import ArgumentError, ProfileError
+                                 _field_manifest, _versions, _window, field_language)
+from pfuzz.counting.sampler import _quotas
+from pfuzz.errors import ArgumentError
 from pfuzz.nearmiss.rejects import Reject, kinds_of
 from pfuzz.profile.loader import Profile, load_profile
 
@@ -89,8 +91,6 @@ SAMPLING = "keyed"
 #: Counts up to this get an exactly uniform permutation; above, the keyed Feistel network.
 EXACT_PERMUTATION_LIMIT = 1 << 20
 FEISTEL_ROUNDS = 8
-#: Lengths drawn per vectorised batch when the quotas are made.
-_QUOTA_BATCH = 1 << 20
 _QUOTAS, _PERMUTATION = 1, 2               # Philox counter words: what a stream is for
 SHARDED_PARTS = ("valid", "rejects")
 
@@ -152,28 +152,23 @@ def _plan(counts: dict[int, int], asked: int, key: int) -> _Plan:
     lengths = sorted(k for k, c in counts.items() if c)
     if sum(counts[k] for k in lengths) <= asked:
         return _Plan(tuple((k, counts[k]) for k in lengths), True)
-    quotas = _quotas(asked, [counts[k] for k in lengths], _philox(key, _QUOTAS))
+    quotas = _length_quotas(asked, [counts[k] for k in lengths], key)
     return _Plan(tuple((k, q) for k, q in zip(lengths, quotas) if q), False)
 
 
-def _quotas(n: int, capacity: list[int], generator) -> list[int]:
-    """The ``"even"`` plan with full lengths redrawn, exactly: uniform integer draws."""
-    quota = [0] * len(capacity)
-    still = list(range(len(capacity)))
-    need = n
-    while need:
-        hits = np.zeros(len(still), dtype=np.int64)
-        for done in range(0, need, _QUOTA_BATCH):
-            drawn = generator.integers(0, len(still), size=min(_QUOTA_BATCH, need - done))
-            hits += np.bincount(drawn, minlength=len(still))
-        need = 0
-        for j, got in zip(list(still), hits.tolist()):
-            quota[j] += got
-            if quota[j] >= capacity[j]:
-                need += quota[j] - capacity[j]
-                quota[j] = capacity[j]
-                still.remove(j)
-    return quota
+class _KeyedSource(RandomSource):
+    """A ``RandomSource`` whose numpy face is a given (Philox) generator."""
+
+    def __init__(self, generator):
+        super().__init__(0)
+        self._numpy = generator
+
+
+def _length_quotas(n: int, capacity: list[int], key: int) -> list[int]:
+    """The ``"even"`` plan with full lengths redrawn (the sampler's own quotas), from
+    exactly uniform integer draws of the keyed generator (its vectorised path)."""
+    m = len(capacity)
+    return _quotas(n, list(range(m)), None, capacity, _KeyedSource(_philox(key, _QUOTAS)), "bulk")
 
 
 @lru_cache(maxsize=64)
@@ -336,11 +331,7 @@ def _field_facts(field, seeds: tuple[int, int], shards: int, staging: Staging, w
                  boundary_limit) -> dict:
     """Plan the field's shards (appended to ``work``), write its boundary file, and return
     its manifest entry (shard facts filled in once the shards are made)."""
-    lang = field.language()
-    if lang.is_empty():
-        raise ProfileError("no string satisfies the pattern with its require, forbid and "
-                           f"length keys over the alphabet {field.alphabet!r}",
-                           where=f"field '{field.name}'")
+    lang = field_language(field)
     low, high, finite = _window(lang)
     limit = field.boundary_limit if boundary_limit is None else boundary_limit
     boundary = lang.boundary_cases(max_length=None if finite else high, limit=limit)

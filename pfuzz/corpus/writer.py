@@ -208,12 +208,18 @@ def check_memory(profile: Profile) -> None:
                        "lower its valid_rows or invalid_rows key, or its fields' max_length")
 
 
-def _field_cases(field: Field, seeds: tuple[int, int], tick, boundary_limit=None) -> FieldCases:
+def field_language(field: Field):
+    """The field's ``Language``; ``ProfileError`` when no string satisfies it."""
     lang = field.language()
     if lang.is_empty():
         raise ProfileError("no string satisfies the pattern with its require, forbid and "
                            f"length keys over the alphabet {field.alphabet!r}",
                            where=f"field '{field.name}'")
+    return lang
+
+
+def _field_cases(field: Field, seeds: tuple[int, int], tick, boundary_limit=None) -> FieldCases:
+    lang = field_language(field)
     low, high, finite = _window(lang)
     counts = {n: c for n, c in lang.counts(low, high).items() if c}
     valid, mode = _valid_strings(lang, field.valid, low, high, sum(counts.values()), seeds[0])
