@@ -244,3 +244,19 @@ def test_count_over_an_empty_length_range_is_one_line():
     # The language of '' has one string, of length 0 (found by the fuzz driver).
     line = one_error_line(run("count", "", "--min-length", "6"))
     assert "the length range 6 to 0 is empty" in line
+
+
+# -- found by the fuzz driver ---------------------------------------------------------------
+
+def test_a_control_character_in_the_profile_title_is_one_corpus(tmp_path):
+    text = PROFILE.replace('title = "Limits"', 'title = "Limits\\u0001"')
+    out = tmp_path / "out"
+    result = run("corpus", profile(tmp_path, text), "--out", str(out))
+    assert result.exit_code == 0, result.output
+    assert (out / "manifest.json").exists() and (out / "qa.xlsx").exists()
+
+
+def test_a_regex_validator_with_a_count_past_re_s_limit_is_one_line():
+    # re raises OverflowError, not re.error, for a repeat count past 2**32 - 1.
+    line = one_error_line(run("audit", "--pattern", "[ab]", "--regex", "x{99999999999}"))
+    assert "is not a Python regular expression" in line

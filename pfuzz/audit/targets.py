@@ -369,7 +369,7 @@ class RegexTarget(Target):
             raise TargetError(f"--mode must be one of {', '.join(CALL_MODES)}, not {mode!r}")
         try:
             compiled = re.compile(pattern)
-        except re.error as error:
+        except (re.error, OverflowError) as error:    # OverflowError: a count past 2**32 - 1
             raise TargetError(f"--regex is not a Python regular expression: {error}") from None
         self.pattern, self.mode = pattern, mode
         self.label = f"re.{mode}({pattern!r})"

@@ -148,7 +148,7 @@ def workbook_bytes(folder: "str | Path", title: str = "") -> bytes:
 
 
 def _read_me(sheet, title: str) -> None:
-    lines = [title or "pfuzz corpus", "",
+    lines = [_cell_text(title) if title else "pfuzz corpus", "",
              "Hand this workbook to people who test by hand: one sheet per field, one per "
              "table of record rows. Every cell is text: nothing is converted to a number or "
              "a date, and nothing runs as a formula.",
