@@ -98,6 +98,18 @@ def test_force_refuses_a_hand_written_manifest_beside_other_files(tmp_path, prof
     assert (out / "src" / "main.py").read_text() == "print('mine')\n"
 
 
+@pytest.mark.parametrize("manifest", ["[1, 2]", '"pfuzz-corpus/1"', "{", "null",
+                                      '{"format": "pfuzz-corpus/1", "files": [1]}',
+                                      '{"format": "pfuzz-corpus/1", "files": {"a": 1}}'])
+def test_a_manifest_of_another_shape_is_not_a_corpus(tmp_path, profile, manifest):
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / formats.MANIFEST_NAME).write_text(manifest)
+    with pytest.raises(CorpusExistsError, match="holds no pfuzz manifest.json"):
+        write_corpus(profile, out, force=True)
+    assert (out / formats.MANIFEST_NAME).read_text() == manifest
+
+
 def test_force_refuses_a_link_inside(tmp_path, profile):
     out = tmp_path / "out"
     write_corpus(profile, out, seed=1)

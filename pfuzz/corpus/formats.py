@@ -137,7 +137,12 @@ def foreign_entries(folder: Path) -> "list[tuple[str, str]] | None":
         return None
     allowed_dirs = {parent.as_posix() for name in listed for parent in Path(name).parents} - {"."}
     found: list[tuple[str, str]] = []
-    for root, dirs, files in os.walk(folder):
+
+    def unreadable(error: OSError) -> None:
+        found.append((Path(error.filename).relative_to(folder).as_posix() + "/",
+                      f" (unreadable: {error.strerror})"))
+
+    for root, dirs, files in os.walk(folder, onerror=unreadable):
         base = Path(root).relative_to(folder)
         for name in sorted(dirs):
             relative = (base / name).as_posix()
@@ -179,9 +184,10 @@ def _inventory(folder: Path) -> "dict[str, dict] | None":
         size, digest = sha256_file(manifest_path)
     except (OSError, ValueError, RecursionError):
         return None
-    files = manifest.get("files") if isinstance(manifest, dict) else None
-    if manifest.get("format") != FORMAT_TAG or not isinstance(files, dict) or not all(
-            isinstance(info, dict) for info in files.values()):
+    if not isinstance(manifest, dict) or manifest.get("format") != FORMAT_TAG:
+        return None
+    files = manifest.get("files")
+    if not isinstance(files, dict) or not all(isinstance(info, dict) for info in files.values()):
         return None
     listed = {name: dict(info) for name, info in files.items()}
     listed[MANIFEST_NAME] = {"bytes": size, "sha256": digest}
