@@ -51,8 +51,8 @@ from contextlib import ExitStack, contextmanager
 from pathlib import Path
 from typing import Iterator, TextIO
 
-from pfuzz.base.files import (Checksum, atomic_writer, check_target_file, current_umask,
-                              owned_prefix, remove_stale, sha256_file, sha256_of, shown_path,
+from pfuzz.base.files import (Checksum, atomic_writer, current_umask, owned_prefix,
+                              remove_stale, sha256_file, sha256_of, shown_path,
                               terminate_as_interrupt)
 from pfuzz.errors import CorpusExistsError, PfuzzWarning
 
