@@ -14,7 +14,11 @@ import numpy as np
 import pytest
 
 import pfuzz
+from pfuzz.automata.dfa import transitions
+from pfuzz.counting import bulk
 from pfuzz.counting.bulk import FloatTables, robin_hood
+from pfuzz.counting.walk import uniform_draws
+from pfuzz.errors import ResourceLimitError
 
 PATTERNS = [
     r"\d{4}-(0[1-9]|1[0-2])-(0[1-9]|[12][0-9]|3[01])",
@@ -24,11 +28,26 @@ PATTERNS = [
 ]
 
 
-def exact_step(counter, tables, remaining: int, state: int) -> list[Fraction]:
-    """The exact law of the next edge from ``state`` with ``remaining`` characters to go."""
+def exact_step(counter, remaining: int, state: int) -> dict[int, Fraction]:
+    """Target → exact probability that the next character from ``state`` leads there, with
+    ``remaining`` characters to go (the targets of the DFA's edges are distinct per state)."""
     below, here = counter._table(remaining - 1), counter._table(remaining)[state]
-    edges = np.flatnonzero(tables.src == state)
-    return [Fraction(int(tables.width[e]) * below[int(tables.tgt[e])], here) for e in edges]
+    return {t: Fraction(len(label) * below[t], here)
+            for label, t in transitions(counter.dfa)[state] if below[t]}
+
+
+def computed_step(tables, remaining: int, state: int) -> dict[int, Fraction]:
+    """Target → the probability q̂ the tables computed for the edge there."""
+    return {int(tables.tgt[e]): Fraction(q) for e, q in tables.transition_law(remaining, state).items()}
+
+
+def drawn_step(tables, remaining: int, state: int) -> dict[int, Fraction]:
+    """Target → the probability the alias table draws an edge there (summed over its slots)."""
+    law: dict[int, Fraction] = {}
+    for edge, probability in tables.step_distribution(remaining, state):
+        target = int(tables.tgt[edge])
+        law[target] = law.get(target, Fraction(0)) + Fraction(probability)
+    return law
 
 
 @pytest.mark.parametrize("pattern", PATTERNS)
@@ -36,35 +55,43 @@ def test_transition_probabilities_within_the_stated_relative_bound(pattern):
     counter = pfuzz.compile(pattern).counter
     top = 24
     tables = FloatTables(counter, top)
-    q = tables.probabilities(top)[0]
     for r in range(1, top + 1):
         bound = Fraction(tables.transition_bound(r))
         for state in range(counter.dfa.n_states):
             if not counter._table(r)[state]:
                 continue
-            edges = np.flatnonzero(tables.src == state)
-            for e, exact in zip(edges, exact_step(counter, tables, r, state)):
-                assert abs(Fraction(float(q[r, e])) - exact) <= exact * bound
+            exact, computed = exact_step(counter, r, state), computed_step(tables, r, state)
+            assert computed.keys() == exact.keys()
+            for target, x in exact.items():
+                assert abs(computed[target] - x) <= x * bound
 
 
 @pytest.mark.parametrize("pattern", PATTERNS)
-def test_alias_tables_draw_the_exact_law_within_the_step_bound(pattern):
+@pytest.mark.parametrize("per_character", [True, False])
+def test_alias_tables_draw_the_exact_law_within_the_step_bound(pattern, per_character, monkeypatch):
+    if not per_character:
+        monkeypatch.setattr(bulk, "CHARACTER_SLOT_BUDGET", 0)
     counter = pfuzz.compile(pattern).counter
     top = 16
     tables = FloatTables(counter, top)
+    assert tables.per_character == per_character
     for r in range(1, top + 1):
         for state in range(counter.dfa.n_states):
             if not counter._table(r)[state]:
                 continue
-            law = tables.step_distribution(r, state)
-            exact = exact_step(counter, tables, r, state)
-            variation = sum(abs(Fraction(float(p)) - x) for p, x in zip(law, exact)) / 2
+            exact, drawn = exact_step(counter, r, state), drawn_step(tables, r, state)
+            if tables.kind[r] == bulk.UNIFORM:  # the walk draws the character exactly
+                assert list(exact.values()) == [1]
+                continue
+            variation = sum(abs(drawn.get(t, 0) - x) for t, x in exact.items()) / 2
             assert variation <= Fraction(tables.step_bound(r))
 
 
 def test_string_bound_is_small_for_everyday_patterns():
     date = FloatTables(pfuzz.compile(PATTERNS[0]).counter, 10)
-    assert date.string_bound(10) < 2e-13
+    assert date.string_bound(10) < 1e-11
+    plate = FloatTables(pfuzz.compile(r"[A-Z]{2}[0-9]{4}").counter, [6])
+    assert plate.string_bound(6) == 0  # every level uniform: exact draws
 
 
 def test_robin_hood_rows_reproduce_their_weights():
@@ -81,8 +108,9 @@ def test_robin_hood_rows_reproduce_their_weights():
 def test_counts_beyond_float_range_keep_their_exponents():
     # Over Unicode, a{60} then 200 more characters: about 10^1208 strings, far beyond float64.
     counter = pfuzz.compile(r"a{60}.*", alphabet="unicode").counter
-    tables = counter.float_tables(260)
-    assert tables.has_strings(260) and not tables.has_strings(59)
+    tables = counter.float_tables([260])
+    assert tables.has_strings(260) and tables.start_exponent(260) > 1208 * 3.3
+    assert not counter.has_strings(59)
     strings = counter.sample(3, lengths=[260], seed=1, method="bulk")
     assert all(len(s) == 260 and re.fullmatch(r"a{60}.*", s, re.S) for s in strings)
 
@@ -113,3 +141,46 @@ def test_long_strings_take_the_bulk_path_with_bounded_tables():
     assert [len(s) for s in strings] == [10_000, 10_000]
     assert all(s.count("c") == 1 for s in strings)
     assert lang.counter._bulk.max_length >= 10_000
+
+
+def test_tables_hold_only_the_pairs_a_walk_can_meet():
+    # A chain: the walk to length m is at state min(i, 5000) after i characters, so the
+    # tables need about one pair per drawn length and remaining length, not 5,001 x 5,033.
+    lang = pfuzz.compile(r"[a-c]{5000,}")
+    strings = lang.sample(40, seed=4)
+    assert all(len(s) >= 5000 and re.fullmatch(r"[a-c]{5000,}", s) for s in strings)
+    tables = lang.counter._bulk
+    assert not tables.dense
+    assert tables.n_pairs <= len(tables.lengths) * 5033
+    dense = FloatTables(pfuzz.compile(r"[a-c]{50,}").counter, 60)
+    sparse = FloatTables(pfuzz.compile(r"[a-c]{50,}").counter, [55, 60])
+    for m in (55, 60):
+        assert sparse.start_exponent(m) == dense.start_exponent(m)
+        assert sparse.mantissa[sparse.start(m)] == dense.mantissa[dense.start(m)]
+
+
+def test_tables_past_the_budget_raise_before_allocating(monkeypatch):
+    monkeypatch.setattr(bulk, "TABLE_BUDGET", 1 << 16)
+    lang = pfuzz.compile(r"([a-f][0-9]{0,99})*")  # 100 states, all reachable at most depths
+    with pytest.raises(ResourceLimitError, match="max_length"):
+        lang.sample(10, lengths=[5_000], seed=1)
+
+
+@pytest.mark.parametrize("width", [2, 3, 10, 16, 26, 95, 200, 256, 300])
+def test_uniform_draws_are_uniform_and_independent_in_pairs(width):
+    # Pearson's chi-squared test of goodness of fit (common practice), on single picks
+    # and on consecutive pairs (two picks may come from one random byte).
+    table = np.arange(width).astype(np.uint8 if width <= 256 else np.uint32)
+    count = 60 * width * width if width <= 26 else 200 * width
+    picks = uniform_draws(table, count, np.random.Generator(np.random.PCG64(7))).astype(np.int64)
+    assert picks.min() >= 0 and picks.max() < width
+    for cells, observed in [(width, np.bincount(picks, minlength=width)),
+                            (width * width, np.bincount(picks[:len(picks) // 2 * 2:2] * width
+                                                        + picks[1:len(picks) // 2 * 2:2],
+                                                        minlength=width * width))]:
+        if len(picks) / 2 < 5 * cells and cells > width:
+            continue  # too few pairs for the test
+        expected = observed.sum() / cells
+        statistic = float(((observed - expected) ** 2 / expected).sum())
+        # 5 standard deviations above the mean of the chi-squared law (cells - 1 degrees)
+        assert statistic < (cells - 1) + 5 * (2 * (cells - 1)) ** 0.5

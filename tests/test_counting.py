@@ -134,3 +134,65 @@ def test_bad_lengths_and_slices_are_pfuzz_errors():
     for call in (lambda: c.count(-1), lambda: c.counts(-1, 2), lambda: list(c.enumerate(0, 2, 3, 1))):
         with pytest.raises(ArgumentError):
             call()
+
+
+# -- sparse levels, matrix powering, yes/no lengths (pfuzz.counting.levels) ----------------
+
+SMALL_PATTERNS = [r"[ab]{2,5}", r"(ab|b)*a?", r"a{3}|b{1,2}c", r"(a|bc)*c{0,2}", r"[abc]*ba"]
+
+
+@pytest.mark.parametrize("pattern", SMALL_PATTERNS)
+def test_sparse_and_dense_levels_count_what_re_accepts(pattern, monkeypatch):
+    import re
+
+    from helpers import strings_upto
+    from pfuzz.counting import levels
+
+    # Brute force with re.fullmatch over every string up to length 7 (the reference).
+    brute = {n: 0 for n in range(8)}
+    for text in strings_upto("abc", 7):
+        if re.fullmatch(pattern, text):
+            brute[len(text)] += 1
+    for share in (1, 10**9):  # every level dense, then every level sparse
+        monkeypatch.setattr(levels, "SPARSE_SHARE", share)
+        c = counter(pattern, alphabet="[abc]")
+        assert c.counts(0, 7) == brute
+        assert [n for n in range(8) if c.has_strings(n)] == [n for n in range(8) if brute[n]]
+
+
+def test_a_chain_keeps_one_entry_per_level():
+    from pfuzz.counting.levels import Level
+
+    c = counter(r"[0-9]{5000}")
+    assert c.count(5000) == 10**5000  # ten choices at each of 5,000 places (common practice)
+    assert all(isinstance(level, Level) and len(level) == 1 for level in c._levels)
+
+
+@pytest.mark.parametrize("pattern", [r"[0-9]*", r"(ab|b)*a?", r"[a-c]+[0-9]?", r"(a[0-9]{0,3})*"])
+def test_matrix_powering_equals_the_level_recurrence(pattern):
+    from pfuzz.counting.levels import power_count
+
+    c = counter(pattern)
+    assert len(c._edges) <= 8
+    for length in (0, 1, 2, 7, 64, 301):
+        assert power_count(c._edges, c.dfa.accepting, length) == c._table(length)[0]
+
+
+def test_long_lengths_of_small_automata_are_counted_by_powering():
+    c = counter(r"[0-9]*")
+    assert c.count(100_000) == 10**100_000
+    assert len(c._levels) == 1  # no level was kept
+
+
+def test_exact_tables_past_the_budget_raise_before_building(monkeypatch):
+    from pfuzz.counting import sampler
+    from pfuzz.errors import ResourceLimitError
+
+    monkeypatch.setattr(sampler, "EXACT_TABLE_BUDGET", 1 << 12)
+    c = counter(r"[a-z]{1,400}")
+    assert c.exact_table_bytes(400) > 1 << 12
+    with pytest.raises(ResourceLimitError, match="method='bulk'"):
+        c.sample(5, seed=1, method="exact")
+    assert len(c._levels) == 1
+    strings = c.sample(5, seed=1)  # auto: the bulk path instead
+    assert all(1 <= len(s) <= 400 for s in strings)

@@ -1,88 +1,108 @@
-"""Bulk uniform sampling by length with floating-point tables.
+"""Float tables for bulk uniform sampling by length, sized to the lengths drawn.
 
 Method: the recursive method with floating-point arithmetic, as analysed by
 Denise & Zimmermann ("Uniform random generation of decomposable structures
-using floating-point arithmetic", TCS 218(2), 1999). For every remaining
-length r and every edge e = (s → t) of the DFA (the characters from s to t,
-``width(e)`` of them) the table holds the probability that a uniform string
-of length r from s starts with one of those characters,
+using floating-point arithmetic", TCS 218(2), 1999). For a remaining length r,
+a state s and an edge e = (s → t) of the DFA (``width(e)`` characters) the
+tables hold the probability that a uniform string of length r from s starts
+with one of e's characters,
 
     q[r][e] = width(e) · T[r-1][t] / T[r][s],
 
-computed from the counts ``T`` kept as float64 mantissas with separate
-integer exponents, so they never overflow or underflow however long the
-strings. Each row q[r][s → ·] becomes an alias table (Walker's alias method,
-built vectorised with Marsaglia's "Robin Hood" pairing, one pass per slot), so
-choosing the next edge costs O(1) whatever the out-degree; a character is
-then taken uniformly among the edge's ``width(e)``. All samples walk at once:
-one numpy operation per step handles a whole column of choices. Strings are
-decoded from code-point arrays (uint8/latin-1 or uint32/UTF-32) with a
-separator character outside the alphabet, never via numpy string arrays, so
-U+0000 survives.
+with the counts ``T`` kept as float64 mantissas and separate integer exponents,
+so they never overflow or underflow however long the strings.
+
+Pairs. The tables are built only for the (remaining length, state) pairs that a
+walk to one of the lengths asked for can meet: a walk to length m is in a state
+reachable from the start in exactly i steps (``pfuzz.counting.levels.forward_sets``)
+with m − i characters to go. A chain such as ``.{65535,}?`` needs about one pair
+per length and remaining length (not states × lengths: 65,536 × 65,568 cells
+would be 32 GiB); an automaton whose states are all reachable at most depths
+gets every pair of every level up to the longest length. Tables that would
+pass ``TABLE_BUDGET`` bytes raise ``ResourceLimitError`` before they are
+allocated. Pairs are numbered level by level, and each pair owns a run of
+*slots*: one per edge whose target still has strings, plus a padding slot.
+
+Alias tables. Each pair's law over its slots is an alias table (Walker's
+method, built vectorised with Marsaglia's "Robin Hood" pairing), so choosing
+the next edge costs O(1) whatever the out-degree; a character is then taken
+uniformly among the edge's ``width(e)``. The walk itself is in
+``pfuzz.counting.walk``.
 
 Reproducibility: the tables come from correctly rounded IEEE-754 operations
-applied in a fixed order (no platform-dependent summation), so they are
-bit-identical everywhere, and the walk consumes the seeded numpy stream in a
-fixed order (chunks of ``CHUNK`` samples, one uniform per sample and step
-for the edge where the state branches, one for the character).
+applied in a fixed order, so they are bit-identical everywhere.
 
-Cost: tables O(L × (E + n)) cells for lengths up to L over E edges and n
-states (a float64 threshold and an int32 alias, 12 bytes per cell), built
-with O(L) vectorised passes; sampling O(N × L) vectorised work for N strings.
+Cost: O(P + S) memory for P pairs and S slots (about 24 bytes a slot and 40 a
+pair), built with one vectorised pass per level; ``TABLE_BUDGET`` bounds it.
 
-Deviation from exact uniformity (u = 2^-53, d = the largest out-degree, w =
-the largest edge width, r ≤ L): the only rounding in the counts is one
-product and at most d-1 additions per state and level (scalings by powers of
-two are exact), all of non-negative terms, so each computed T[r][s] is exact
-up to a relative error γ_{(d+1)r}, γ_k = k·u/(1-k·u); each q̂[r][e] then has
-relative error at most γ_{2(d+1)r+1}. The alias table of a row adds at most
-k-1 roundings of size k·u to each of its k thresholds (2·d²·u in total
-variation), the slot draw ⌊x·k⌋ from a 53-bit uniform x (with a padding slot
-for the rare x·k = k) at most u per slot, and the character draw ⌊v·w⌋ at
-most u per character. So one step's choice is within total variation
+Deviation from exact uniformity (u = 2^-53, d = the largest out-degree, w = the
+largest edge width). Levels are of three kinds. At a *uniform* level every pair
+has one edge and all those edges carry the same characters: the character is
+drawn with ``Generator.integers`` (exact, Lemire's method), so the step is
+exact, η_r = 0. At a *straight* level every pair has one edge: the edge is
+certain and only the character draw ⌊v·w⌋ from a 53-bit uniform v errs, by at
+most w·u, η_r ≤ w·u. At a *branching* level the computed counts are exact up to
+a relative error γ_{(d+1)r}, γ_k = k·u/(1-k·u) (one product and at most d-1
+additions of non-negative terms per pair and level; scalings by powers of two
+are exact), each q̂ then within γ_{2(d+1)r+1}; the alias table adds at most
+2·d²·u in total variation, the slot draw ⌊x·k⌋ at most u per slot, the
+character draw w·u, so
 
-    η_r ≤ γ_{2(d+1)r+1}/2 + (2d² + d + w)·u
+    η_r ≤ γ_{2(d+1)r+1}/2 + (2d² + d + w)·u.
 
-of the exact one, and by the coupling (hybrid) argument a string of length L
-is drawn within total variation Σ_{r≤L} η_r ≈ (d+1)·L·(L+1)·u + L·(2d² + d + w)·u
-of the uniform distribution on strings of length L (``string_bound``). For
-a date pattern (d = 4, w = 10, L = 10) that is about 10^-13; for L = 10^4
-over printable ASCII (d = 5, w = 95) below 10^-7. ``transition_bound`` and
-``step_bound`` give the per-entry and per-step bounds that the tests check
-against exact fractions. Terms smaller than 2^-1074 of a state's largest
-term are dropped as zero (a further relative error below 2^-1000 per level,
-not worth a line in the bound).
+By the coupling (hybrid) argument a string of length L is drawn within total
+variation Σ_{r≤L} η_r of the uniform distribution on strings of length L
+(``string_bound``): 0 for fixed-width patterns without branching (plates,
+UUIDs), about 10^-13 for a date pattern, below 10^-7 for L = 10^4 over
+printable ASCII. ``transition_bound``, ``step_bound`` and ``step_distribution``
+give the per-entry and per-step figures that the tests check against exact
+fractions. Terms smaller than 2^-1074 of a pair's largest term are dropped as
+zero (a further relative error below 2^-1000 per level, not worth a line).
 """
 
 from __future__ import annotations
 
 import numpy as np
 
-#: Samples walked together; bounds the working memory to CHUNK × length codes.
-CHUNK = 1 << 14
+from pfuzz.counting.levels import forward_sets
+from pfuzz.errors import ResourceLimitError
+
+__all__ = ["FloatTables", "TABLE_BUDGET", "robin_hood"]
+
+#: Bytes the float tables of one request may take; larger requests raise ResourceLimitError.
+TABLE_BUDGET = 1 << 29
 #: Edges with at most this many characters in all get a direct key → character table;
 #: wider ones (Unicode-sized classes) are searched among their ranges.
 CHAR_TABLE_LIMIT = 1 << 20
+#: Bytes a pair and a slot take (arrays kept, and the working arrays of the build).
+PAIR_BYTES, SLOT_BYTES = 40, 60
+#: Alias cells built together (bounds the temporaries of ``robin_hood``).
+ROW_BLOCK = 1 << 18
+#: Bytes of slots one per character may take; beyond, slots are one per edge.
+CHARACTER_SLOT_BUDGET = 1 << 24
 
 _UNIT = 2.0 ** -53
-_LEVEL_BLOCK = 256  # levels per block when building alias tables
 _NONE = -(1 << 40)  # exponent of a zero count
+UNIFORM, STRAIGHT, BRANCHING = 0, 1, 2
 
 
 class FloatTables:
-    """Per-level alias tables over the edges of one DFA, for lengths up to ``max_length``.
+    """Float counts, transition laws and alias tables for the walks to ``lengths``.
 
-    Layout: state s owns the slots ``base[s] .. base[s] + fanout[s]``, one per
-    outgoing edge plus one padding slot (threshold 0) that catches the rare
-    float draw ⌊x·k⌋ = k; the state being walked is held as its base slot.
+    ``lengths`` is an iterable of lengths, or an int L for every length up to L.
     """
 
-    def __init__(self, counter, max_length: int):
-        self.max_length = max_length
+    def __init__(self, counter, lengths):
+        if isinstance(lengths, int):
+            lengths = range(lengths + 1)
+        self.lengths = sorted({int(m) for m in lengths})
+        self.max_length = self.lengths[-1] if self.lengths else 0
+        self.dfa = counter.dfa
         self._edges(counter)
-        q, self.start_mantissa, self.start_exponent = self.probabilities(max_length)
-        self.limit, self.alias = self._alias_tables(q)
-        self._separator, self._codes_dtype, self._encoding = _codec(counter.dfa.alphabet)
+        self._pairs(counter)
+        self._counts()
+        self._slots()
+        self._level_kinds()
 
     # -- structure ----------------------------------------------------------------------
     def _edges(self, counter) -> None:
@@ -91,101 +111,285 @@ class FloatTables:
             for t, rs in groups:
                 src.append(s)
                 tgt.append(t)
-                ranges.append(rs)
-        n, e = counter.dfa.n_states, len(src)
-        self.n_states, self.n_edges, self.n_slots = n, e, e + n
+                ranges.append(tuple(rs))
+        n = counter.dfa.n_states
+        self.n_states = n
         self.src = np.array(src, dtype=np.int64)
         self.tgt = np.array(tgt, dtype=np.int64)
+        self.ranges = ranges
         self.width = np.array([sum(hi - lo + 1 for lo, hi in rs) for rs in ranges], dtype=np.float64)
-        self.fanout = np.bincount(self.src, minlength=n).astype(np.int64)
-        self.base = np.concatenate(([0], np.cumsum(self.fanout + 1)[:-1])).astype(np.int64)
-        self.slot = np.arange(e, dtype=np.int64) + self.src  # slot of each edge
-        self.accepting = np.array([s in counter.dfa.accepting for s in range(n)])
-        self._slot_arrays(ranges)
+        self.edge_ptr = np.concatenate(([0], np.cumsum(np.bincount(self.src, minlength=n))))
+        labels: dict[tuple, int] = {}
+        self.label = np.array([labels.setdefault(rs, len(labels)) for rs in ranges], dtype=np.int64)
+        self.label_ranges = list(labels)
+        self.accepting = np.zeros(n, dtype=bool)
+        self.accepting[sorted(counter.dfa.accepting)] = True
+        self.successors = [[t for t, _ in groups] for groups in counter.groups]
 
-    def _slot_arrays(self, ranges) -> None:
-        """Per slot: the state's fanout, the target's base, the edge's width and character keys."""
-        size = self.n_slots
-        self.slot_fanout = np.repeat(self.fanout.astype(np.float64), self.fanout + 1)
-        self.next_base = np.zeros(size, dtype=np.int64)
-        self.next_base[self.slot] = self.base[self.tgt]
-        self.slot_width = np.ones(size)
-        self.slot_width[self.slot] = self.width
-        self.slot_key = np.zeros(size, dtype=np.int64)
-        widths = self.width.astype(np.int64)
-        self.slot_key[self.slot] = np.concatenate(([0], np.cumsum(widths + 1)[:-1]))
-        self._char_table = None
-        if widths.sum() <= CHAR_TABLE_LIMIT:
-            self._char_table = np.concatenate(
-                [np.concatenate([np.arange(lo, hi + 1) for lo, hi in rs] + [[rs[-1][1]]])
-                 for rs in ranges] or [np.zeros(1)]).astype(np.int64)
+    def _pairs(self, counter) -> None:
+        """Pair keys ``level * n + state``, sorted: every pair a walk to the lengths can meet."""
+        n, top = self.n_states, self.max_length
+        degree = max(len(self.src) / max(n, 1), 1.0)
+        per_pair = PAIR_BYTES + SLOT_BYTES * (degree + 1)
+        dense = n * (top + 1)
+        sets = None
+        if len(self.lengths) < top + 1 or dense * per_pair > TABLE_BUDGET:
+            sets = forward_sets(self.successors, top, limit=dense)
+        if sets is not None:
+            depth = np.repeat(np.arange(len(sets)), [len(f) for f in sets])
+            state = np.concatenate([np.asarray(f, dtype=np.int64) for f in sets])
+            within = np.searchsorted(depth, self.lengths, side="right")
+            if within.sum() >= dense and dense * per_pair <= TABLE_BUDGET:
+                sets = None
+        self.dense = sets is None
+        index = np.int32 if n < 2**31 else np.int64
+        if self.dense:
+            self._check(dense * per_pair)
+            self.pair_state = np.tile(np.arange(n, dtype=index), top + 1)
+            self.level_ptr = np.arange(0, dense + 1, n)
         else:
-            self._range_lo = np.array([lo for rs in ranges for lo, _ in rs], dtype=np.int64)
+            self._check(int(within.sum()) * per_pair)
+            keys = np.sort(np.concatenate([(m - depth[:k]) * n + state[:k]
+                                           for m, k in zip(self.lengths, within.tolist())]))
+            keys = keys[np.concatenate(([True], keys[1:] != keys[:-1]))]
+            self.pair_state = (keys % n).astype(index)
+            self.level_ptr = np.searchsorted(keys // n, np.arange(top + 2))
+        self.n_pairs = len(self.pair_state)
+
+    def _check(self, needed: float) -> None:
+        if needed > TABLE_BUDGET:
+            raise ResourceLimitError(
+                f"sampling strings of length up to {self.max_length:,} from this "
+                f"{self.n_states:,}-state automaton needs float tables of about "
+                f"{needed / 2**20:,.0f} MB (limit {TABLE_BUDGET / 2**20:,.0f} MB): ask for "
+                "shorter strings (max_length) or fewer distinct lengths")
+
+    def covers(self, lengths) -> bool:
+        """Whether walks to every one of ``lengths`` can use these tables."""
+        if self.dense:
+            return all(0 <= m <= self.max_length for m in lengths)
+        return set(lengths) <= set(self.lengths)
+
+    def pair(self, level: int, state: int) -> int:
+        """The number of the pair (level, state), or -1 when the tables do not hold it."""
+        if not 0 <= level <= self.max_length:
+            return -1
+        a, b = int(self.level_ptr[level]), int(self.level_ptr[level + 1])
+        at = a + int(np.searchsorted(self.pair_state[a:b], state))
+        return at if at < b and self.pair_state[at] == state else -1
+
+    # -- counts and laws ----------------------------------------------------------------
+    def _counts(self) -> None:
+        """Float counts of every pair, level by level, and the law over each pair's edges."""
+        size = self.n_pairs
+        self.mantissa = np.zeros(size)
+        self.exponent = np.full(size, _NONE, dtype=np.int64)
+        first = slice(self.level_ptr[0], self.level_ptr[1])
+        held = self.accepting[self.pair_state[first]]
+        self.mantissa[first] = np.where(held, 0.5, 0.0)
+        self.exponent[first] = np.where(held, 1, _NONE)
+        degree = np.diff(self.edge_ptr)
+        most = int(degree[self.pair_state[self.level_ptr[1]:]].sum())  # entries at most
+        index = self.pair_state.dtype
+        self.entry_pair, self.entry_next = np.empty(most, index), np.empty(most, index)
+        self.entry_edge, self.entry_q = np.empty(most, np.int32), np.empty(most)
+        filled = 0
+        for r in range(1, self.max_length + 1):
+            part = self._level(r)
+            if part is not None:
+                end = filled + len(part[0])
+                for column, values in zip((self.entry_pair, self.entry_edge, self.entry_q,
+                                           self.entry_next), part):
+                    column[filled:end] = values
+                filled = end
+        for column in (self.entry_pair, self.entry_edge, self.entry_q, self.entry_next):
+            column.resize(filled, refcheck=False)
+
+    def _level(self, r: int):
+        """Counts of level r from those of level r - 1, and the law of each pair's edges:
+        (pair, edge, q̂, target pair) for the edges with strings after them."""
+        found = self._terms(r)
+        if found is None:
+            return None
+        a, owner, edge, target, terms, total, top = found
+        mantissa, raised = np.frexp(total)
+        self.mantissa[a:a + len(total)] = mantissa
+        self.exponent[a:a + len(total)] = np.where(total > 0, raised + top, _NONE)
+        keep = terms > 0
+        q = terms[keep] / total[owner[keep]]
+        return owner[keep] + a, edge[keep], q, target[keep]
+
+    def _terms(self, r: int):
+        """Level r's terms width(e) · T̂[r-1][t] (scaled by a common power of two per pair)
+        and their sums: (first pair, owner, edge, target pair, terms, totals, exponents)."""
+        a, b = self.level_ptr[r], self.level_ptr[r + 1]
+        c = self.level_ptr[r - 1]
+        if a == b:
+            return None
+        states = self.pair_state[a:b]
+        first = self.edge_ptr[states]
+        counts = self.edge_ptr[states + 1] - first
+        single = counts.min() == 1 and counts.max() == 1
+        if single:  # one edge per pair (chains): no grouping
+            owner, edge = np.arange(b - a), first
+        else:
+            owner = np.repeat(np.arange(b - a), counts)
+            edge = np.repeat(first - np.cumsum(counts) + counts, counts) + np.arange(len(owner))
+        below = self.pair_state[c:a]
+        targets = self.tgt[edge]
+        at = np.searchsorted(below, targets)
+        np.minimum(at, len(below) - 1, out=at)
+        found = below[at] == targets if len(below) else np.zeros(len(edge), dtype=bool)
+        target = c + at
+        x = np.where(found, self.exponent[target], _NONE)
+        if single:
+            top = x
+        else:
+            top = np.full(b - a, _NONE, dtype=np.int64)
+            np.maximum.at(top, owner, x)
+        shift = np.maximum(x - top[owner], -1100).astype(np.int32)
+        terms = np.where(found, self.width[edge] * np.ldexp(self.mantissa[target], shift), 0.0)
+        total = terms if single else np.bincount(owner, weights=terms, minlength=b - a)
+        return a, owner, edge, target, terms, total, top
+
+    def transition_law(self, remaining: int, state: int) -> dict[int, float]:
+        """Edge → q̂, the computed probability that a string of length ``remaining`` from
+        ``state`` starts with one of the edge's characters (recomputed as the build did)."""
+        a, owner, edge, _, terms, total, _ = self._terms(remaining)
+        mine = owner == self.pair(remaining, state) - a
+        return {int(e): float(t / total[o]) for e, t, o in zip(edge[mine], terms[mine], owner[mine])
+                if t > 0}
+
+    # -- slots and alias tables --------------------------------------------------------------
+    def _slots(self) -> None:
+        """Slots per pair: one per edge (with strings after it), or, when the tables stay
+        small, one per character of those edges (``per_character``: one draw picks the
+        character and the edge at once); a padding slot ends each pair's run."""
+        self._characters()
+        size = self.n_pairs
+        pair, edge, q, nxt = self.entry_pair, self.entry_edge, self.entry_q, self.entry_next
+        del self.entry_pair, self.entry_edge, self.entry_q, self.entry_next
+        self.edge_count = np.bincount(pair, minlength=size).astype(np.int32)
+        characters = int(self.width[edge].sum())
+        self.per_character = (self.char_table is not None and
+                              characters * SLOT_BYTES <= CHARACTER_SLOT_BUDGET)
+        chars = None
+        if self.per_character:
+            widths = self.width[edge].astype(np.int64)
+            expand = np.repeat(np.arange(len(edge)), widths)
+            within = np.arange(len(expand)) - np.repeat(np.cumsum(widths) - widths, widths)
+            pair, edge, nxt = pair[expand], edge[expand], nxt[expand]
+            q = q[expand] / widths[expand]
+            chars = self.char_table[self.edge_key[edge] + within]
+        fanout = np.bincount(pair, minlength=size)
+        index = np.int32 if int(fanout.sum()) + size < 2**31 else np.int64
+        self.fanout = fanout.astype(index)
+        self.base = np.concatenate(([0], np.cumsum(fanout + 1)[:-1])).astype(index)
+        self.n_slots = int(fanout.sum() + size)
+        first_entry = np.concatenate(([0], np.cumsum(fanout)[:-1])).astype(index)
+        del fanout
+        slot = self.base[pair] + (np.arange(len(pair), dtype=index) - first_entry[pair])
+        del pair
+        self.slot_edge = np.zeros(self.n_slots, dtype=np.int32)
+        self.slot_edge[slot] = edge
+        if chars is not None:
+            self.slot_char = np.zeros(self.n_slots, dtype=np.uint32)
+            self.slot_char[slot] = chars
+        self.next_base = np.zeros(self.n_slots, dtype=index)
+        self.next_base[slot] = self.base[nxt]
+        del slot, edge, nxt, chars
+        self.slot_fanout = np.zeros(self.n_slots, dtype=np.float32)  # small integers: exact
+        self.slot_fanout[self.base] = self.fanout
+        self.limit = np.zeros(self.n_slots)
+        self.alias = np.arange(self.n_slots, dtype=index)
+        for k in np.unique(self.fanout).tolist():
+            if k:
+                self._alias(k, first_entry, q)
+
+    def _alias(self, k: int, first_entry: np.ndarray, q: np.ndarray) -> None:
+        """Alias tables of the pairs with ``k`` slots: slot j with threshold p gets limit
+        j + p, so a draw x·k keeps slot ⌊x·k⌋ when x·k < limit; an alias is a slot index."""
+        pairs = np.flatnonzero(self.fanout == k)
+        for a in range(0, len(pairs), max(ROW_BLOCK // k, 1)):
+            block = pairs[a:a + max(ROW_BLOCK // k, 1)]
+            rows = q[first_entry[block][:, None] + np.arange(k)]
+            cols = self.base[block][:, None] + np.arange(k)
+            if k == 1:
+                self.limit[cols] = 1.0
+            else:
+                p, alias = robin_hood(rows * k)
+                self.limit[cols] = p + np.arange(k)
+                self.alias[cols] = alias + self.base[block][:, None]
+            pad = self.base[block] + k
+            self.limit[pad] = k
+            self.alias[pad] = self.base[block] + rows.argmax(axis=1)
+
+    def _characters(self) -> None:
+        """Per edge, the offset of its characters in one key space, and how keys decode."""
+        widths = self.width.astype(np.int64)
+        self.edge_key = np.concatenate(([0], np.cumsum(widths + 1)[:-1])).astype(np.int64)
+        self.char_table = None
+        if widths.sum() <= CHAR_TABLE_LIMIT:
+            self.char_table = np.concatenate(
+                [np.concatenate([np.arange(lo, hi + 1) for lo, hi in rs] + [[rs[-1][1]]])
+                 for rs in self.ranges] or [np.zeros(1)]).astype(np.int64)
+        else:
+            self.range_lo = np.array([lo for rs in self.ranges for lo, _ in rs], dtype=np.int64)
             starts, key = [], 0
-            for rs in ranges:
+            for rs in self.ranges:
                 for lo, hi in rs:
                     starts.append(key)
                     key += hi - lo + 1
                 key += 1
-            self._range_key = np.array(starts, dtype=np.int64)
+            self.range_key = np.array(starts, dtype=np.int64)
 
-    def probabilities(self, max_length: int):
-        """q[r][e] for r = 0..max_length (row 0 unused), plus the start state's counts."""
-        n, src, tgt = self.n_states, self.src, self.tgt
-        mantissa = np.where(self.accepting, 0.5, 0.0)
-        exponent = np.where(self.accepting, 1, _NONE).astype(np.int64)
-        q = np.zeros((max_length + 1, self.n_edges))
-        start_m, start_e = [mantissa[0]], [exponent[0]]
-        for r in range(1, max_length + 1):
-            x = exponent[tgt]
-            top = np.full(n, _NONE, dtype=np.int64)
-            np.maximum.at(top, src, x)
-            shift = np.clip(x - top[src], -1100, 0).astype(np.int32)
-            terms = self.width * np.ldexp(mantissa[tgt], shift)
-            total = np.bincount(src, weights=terms, minlength=n)
-            np.divide(terms, total[src], out=q[r], where=total[src] > 0)
-            mantissa, raised = np.frexp(total)
-            exponent = np.where(total > 0, raised + top, _NONE)
-            start_m.append(mantissa[0])
-            start_e.append(exponent[0])
-        return q, np.array(start_m), np.array(start_e, dtype=np.int64)
+    def _level_kinds(self) -> None:
+        """Per level: UNIFORM, STRAIGHT or BRANCHING (see the module docstring), and the
+        label of a uniform level's one character set."""
+        top = self.max_length
+        live = np.flatnonzero(self.edge_count)
+        level = np.searchsorted(self.level_ptr, live, side="right") - 1
+        label = self.label[self.slot_edge[self.base[live]]]
+        most = np.zeros(top + 1, dtype=np.int64)
+        np.maximum.at(most, level, self.edge_count[live])
+        high = np.full(top + 1, -1, dtype=np.int64)
+        low = np.full(top + 1, len(self.label), dtype=np.int64)
+        np.maximum.at(high, level, label)
+        np.minimum.at(low, level, label)
+        self.kind = np.where(most > 1, BRANCHING, np.where(high > low, STRAIGHT, UNIFORM))
+        self.kind[0] = UNIFORM
+        self.level_label = np.where(self.kind == UNIFORM, high, -1)
+        self.level_width = np.ones(top + 1, dtype=np.int64)
+        uniform = self.level_label >= 0
+        self.level_width[uniform] = self.width[self.level_edge(uniform)].astype(np.int64)
+        # uniform_below[r]: every level 1..r is uniform, so a walk there needs no state
+        self.uniform_below = np.concatenate(([True], np.cumprod(self.kind[1:] == UNIFORM) > 0))
 
-    def _alias_tables(self, q):
-        """Limits and aliases per (level, slot): slot j of a state with threshold p has
-        limit j + p, so a draw x·k keeps slot ⌊x·k⌋ when x·k < limit; an alias is a slot index.
-        Built a block of levels at a time, so temporaries stay small beside the result."""
-        levels = q.shape[0]
-        limit = np.zeros((levels, self.n_slots))
-        alias = np.broadcast_to(np.arange(self.n_slots, dtype=np.int32),
-                                (levels, self.n_slots)).copy()
-        for first in range(0, levels, _LEVEL_BLOCK):
-            block = slice(first, min(first + _LEVEL_BLOCK, levels))
-            self._alias_block(q[block], limit[block], alias[block])
-        limit += np.arange(self.n_slots) - np.repeat(self.base, self.fanout + 1)
-        return limit, alias
-
-    def _alias_block(self, q, prob, alias) -> None:
-        levels = q.shape[0]
-        for k in np.unique(self.fanout).tolist():
-            if k == 0:
-                continue
-            states = np.flatnonzero(self.fanout == k)
-            cols = self.base[states][:, None] + np.arange(k)
-            rows = q[:, cols - states[:, None]]
-            p, a = robin_hood(rows.reshape(-1, k) * k)
-            prob[:, cols] = p.reshape(levels, len(states), k)
-            alias[:, cols] = a.reshape(levels, len(states), k) + self.base[states][None, :, None]
-            alias[:, self.base[states] + k] = rows.argmax(axis=2) + self.base[states][None, :]
+    def level_edge(self, levels: np.ndarray) -> np.ndarray:
+        """An edge carrying the label of each uniform level (levels given as a mask)."""
+        first = {}
+        for e, lab in enumerate(self.label.tolist()):
+            first.setdefault(lab, e)
+        return np.array([first[lab] for lab in self.level_label[levels].tolist()], dtype=np.int64)
 
     # -- questions --------------------------------------------------------------------
+    def start(self, length: int) -> int:
+        """The pair of the start state with ``length`` characters to go (-1 if not held)."""
+        return self.pair(length, 0)
+
     def has_strings(self, length: int) -> bool:
-        return bool(self.start_mantissa[length] > 0)
+        p = self.start(length)
+        return p >= 0 and bool(self.mantissa[p] > 0)
+
+    def start_exponent(self, length: int) -> int:
+        """The binary exponent of count(length): the count lies in [2^(e-1), 2^e)."""
+        return int(self.exponent[self.start(length)])
 
     def relative_weights(self, lengths: list[int]) -> np.ndarray:
         """Count(length) up to one common factor, as floats (for proportional length choice)."""
-        exps = self.start_exponent[lengths]
-        return np.ldexp(self.start_mantissa[lengths],
-                        np.clip(exps - exps.max(), -1100, 0).astype(np.int32))
+        pairs = np.array([self.start(m) for m in lengths])
+        exps = self.exponent[pairs]
+        return np.ldexp(self.mantissa[pairs], np.clip(exps - exps.max(), -1100, 0).astype(np.int32))
 
     def transition_bound(self, remaining: int) -> float:
         """Bound on |q̂/q - 1| for an entry at this remaining length (see the module docstring)."""
@@ -193,7 +397,15 @@ class FloatTables:
 
     def step_bound(self, remaining: int) -> float:
         """Bound on the total variation of one step's choice at this remaining length."""
-        d, w = self._degree, int(self.width.max(initial=1))
+        kind, w = int(self.kind[remaining]), int(self.width.max(initial=1))
+        if kind == UNIFORM:
+            return 0.0
+        if self.per_character:
+            k = int(self.fanout.max(initial=1))
+            return _gamma(2 * (self._degree + 1) * remaining + 2) / 2 + (2 * k * k + k) * _UNIT
+        if kind == STRAIGHT:
+            return w * _UNIT
+        d = self._degree
         return self.transition_bound(remaining) / 2 + (2 * d * d + d + w) * _UNIT
 
     def string_bound(self, length: int) -> float:
@@ -202,97 +414,26 @@ class FloatTables:
 
     @property
     def _degree(self) -> int:
-        return int(self.fanout.max(initial=1))
+        return int(np.bincount(self.src, minlength=1).max(initial=1))
 
-    def step_distribution(self, remaining: int, state: int) -> np.ndarray:
-        """The law over the state's edges that its alias table at this level draws
-        (ignoring the padding slot's 2^-53 share)."""
-        k = int(self.fanout[state])
-        first = int(self.base[state])
+    def step_distribution(self, remaining: int, state: int) -> list[tuple[int, float]]:
+        """(edge, probability) per slot of (remaining, state): the law its alias table draws
+        (ignoring the padding slot's 2^-53 share); edges without strings after them have
+        no slot, and an edge has one slot per character in ``per_character`` tables."""
+        p = self.pair(remaining, state)
+        k, first = int(self.fanout[p]), int(self.base[p])
         law = np.zeros(k + 1)
         for j in range(k):
-            p = self.limit[remaining, first + j] - j  # exact: Sterbenz
-            law[j] += p
-            law[int(self.alias[remaining, first + j]) - first] += 1.0 - p
-        return law[:k] / k
+            threshold = self.limit[first + j] - j  # exact: Sterbenz
+            law[j] += threshold
+            law[int(self.alias[first + j]) - first] += 1.0 - threshold
+        edges = self.slot_edge[first:first + k].tolist()
+        return [(e, float(x) / k) for e, x in zip(edges, law[:k])]
 
-    # -- sampling ---------------------------------------------------------------------
     def sample(self, lengths: np.ndarray, generator: np.random.Generator, progress=None) -> list[str]:
         """One string per entry of ``lengths`` (each must have strings), in that order."""
-        if len(lengths) and lengths.max() > self.max_length:
-            raise ValueError("tables too short for the lengths asked")
-        if len(lengths) and lengths.min() == lengths.max():
-            return self._sample_sorted(lengths, generator, progress)
-        key = -lengths
-        if lengths.max() < 2**15:
-            key = key.astype(np.int16)  # a stable sort of int16 is a radix sort
-        order = np.argsort(key, kind="stable")
-        result = np.empty(len(lengths), dtype=object)
-        result[order] = self._sample_sorted(lengths[order], generator, progress)
-        return result.tolist()
-
-    def _sample_sorted(self, lengths: np.ndarray, generator, progress) -> list[str]:
-        """Strings for lengths sorted longest first, a chunk at a time."""
-        out: list[str] = []
-        for a in range(0, len(lengths), CHUNK):
-            chunk = lengths[a:a + CHUNK]
-            out.extend(self._decode(self._walk(chunk, generator), chunk))
-            if progress is not None:
-                progress(len(chunk))
-        return out
-
-    def _walk(self, lengths: np.ndarray, generator: np.random.Generator) -> np.ndarray:
-        """Code points, one row per sample (lengths sorted longest first).
-
-        Strings are aligned at their end: a string of length L starts at step
-        top - L, so at every step all active samples have the same remaining
-        length and read the same level of the tables. Each row ends with the
-        separator; row k holds its string in columns top - L .. top - 1.
-        """
-        n = len(lengths)
-        top = int(lengths[0]) if n else 0
-        codes = np.zeros((top + 1, n), dtype=self._codes_dtype)
-        codes[top, :] = self._separator
-        where = np.zeros(n, dtype=np.int64)  # base slot of each sample's state
-        branching = self.fanout.max(initial=0) > 1
-        negative = -lengths
-        for step in range(top):
-            remaining = top - step
-            m = int(np.searchsorted(negative, -remaining, side="right"))
-            here = where[:m]
-            chosen = self._choose(here, remaining, generator) if branching else here
-            codes[step, :m] = self._characters(chosen, generator)
-            where[:m] = self.next_base[chosen]
-        return codes.T
-
-    def _choose(self, here, remaining: int, generator) -> np.ndarray:
-        """Alias draw: a uniform slot of the state, kept below its limit, else its alias."""
-        x = generator.random(len(here)) * self.slot_fanout[here]
-        slot = here + x.astype(np.int64)
-        return np.where(x < self.limit[remaining][slot], slot, self.alias[remaining][slot])
-
-    def _characters(self, chosen, generator) -> np.ndarray:
-        """A uniform character among the chosen edge's characters."""
-        widths = self.slot_width[chosen]
-        pick = (generator.random(len(chosen)) * widths).astype(np.int64)
-        key = self.slot_key[chosen] + pick
-        if self._char_table is not None:
-            return self._char_table[key]
-        key = np.minimum(key, self.slot_key[chosen] + widths.astype(np.int64) - 1)
-        at = np.searchsorted(self._range_key, key, side="right") - 1
-        return self._range_lo[at] + (key - self._range_key[at])
-
-    def _decode(self, codes: np.ndarray, lengths: np.ndarray) -> list[str]:
-        """Rows of code points back to strings, one run of equal lengths at a time."""
-        out: list[str] = []
-        separator = chr(self._separator)
-        top = codes.shape[1] - 1
-        cuts = np.flatnonzero(np.diff(lengths)) + 1
-        for a, b in zip([0, *cuts.tolist()], [*cuts.tolist(), len(lengths)]):
-            block = np.ascontiguousarray(codes[a:b, top - int(lengths[a]):])
-            text = block.tobytes().decode(self._encoding, "surrogatepass")
-            out.extend(text.split(separator)[:-1])
-        return out
+        from pfuzz.counting.walk import walk_all
+        return walk_all(self, lengths, generator, progress)
 
 
 def robin_hood(scaled: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -322,12 +463,3 @@ def robin_hood(scaled: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
 
 def _gamma(k: int) -> float:
     return k * _UNIT / (1 - k * _UNIT)
-
-
-def _codec(alphabet) -> tuple[int, type, str]:
-    """A separator code point outside the alphabet, and how to store and decode code points."""
-    rest = alphabet.complement()
-    if rest.ranges and rest.min < 256 and alphabet.max < 256:
-        return rest.min, np.uint8, "latin-1"
-    separator = next((lo for lo, _ in rest.ranges), 0xD800)
-    return separator, np.uint32, "utf-32-le"

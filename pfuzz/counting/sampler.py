@@ -17,9 +17,13 @@ string of that length:
   variation for everyday patterns).
 
 ``method="auto"`` (the default) takes the bulk path when ``n`` is at least
-``BULK_MIN_SAMPLES`` or a length above ``EXACT_MAX_LENGTH`` is possible
-(exact tables grow as length², float tables as length); ``method="exact"``
-forces the exact walk, ``method="bulk"`` the bulk path.
+``BULK_MIN_SAMPLES``, a length above ``EXACT_MAX_LENGTH`` is possible, or the
+exact tables would pass ``EXACT_TABLE_BUDGET`` bytes (exact tables grow as
+length², float tables as length); ``method="exact"`` forces the exact walk (and
+raises ``ResourceLimitError`` past that budget, before building anything),
+``method="bulk"`` the bulk path. Which lengths have strings comes from a yes/no
+recurrence (``Counter.has_strings``), never from counts; the bulk path builds
+float tables only for the lengths actually drawn.
 
 Length plans: ``"even"`` picks uniformly among the lengths in range that
 have strings; ``"proportional"`` weighs each by its count (uniform over all
@@ -61,13 +65,15 @@ from math import lcm
 
 import numpy as np
 
-from pfuzz.errors import ArgumentError, EmptyLanguageError, PfuzzWarning
+from pfuzz.errors import ArgumentError, EmptyLanguageError, PfuzzWarning, ResourceLimitError
 from pfuzz.base.randomness import source
 
 #: The auto method takes the bulk path from this many samples on.
 BULK_MIN_SAMPLES = 1_000
-#: ... or when a length above this one may be drawn.
+#: ... or when a length above this one may be drawn ...
 EXACT_MAX_LENGTH = 1_000
+#: ... or when the exact tables would take more bytes than this.
+EXACT_TABLE_BUDGET = 1 << 28
 
 METHODS = ("auto", "exact", "bulk")
 LENGTH_MODES = ("even", "proportional")
@@ -91,10 +97,29 @@ def sample(counter, n: int, *, min_length=None, max_length=None, seed=None, leng
     return _draw(counter, n, candidates, weights, rng, method, progress)
 
 
-def use_bulk(n: int, longest: int, method: str) -> bool:
+def use_bulk(n: int, longest: int, method: str, counter=None) -> bool:
+    """Whether ``n`` strings of lengths up to ``longest`` take the bulk path."""
     if method != "auto":
+        if method == "exact" and counter is not None:
+            _exact_affordable(counter, longest, required=True)
         return method == "bulk"
-    return n >= BULK_MIN_SAMPLES or longest > EXACT_MAX_LENGTH
+    if n >= BULK_MIN_SAMPLES or longest > EXACT_MAX_LENGTH:
+        return True
+    return counter is not None and not _exact_affordable(counter, longest)
+
+
+def _exact_affordable(counter, longest: int, required: bool = False) -> bool:
+    """Whether the exact tables up to ``longest`` fit ``EXACT_TABLE_BUDGET`` (raise when
+    ``required`` and they do not)."""
+    needed = counter.exact_table_bytes(longest)
+    if needed <= EXACT_TABLE_BUDGET:
+        return True
+    if required:
+        raise ResourceLimitError(
+            f"exact sampling up to length {longest:,} needs exact count tables of about "
+            f"{needed / 2**20:,.0f} MB (limit {EXACT_TABLE_BUDGET / 2**20:,.0f} MB): use "
+            "method='bulk' (float tables, bounded error) or ask for shorter strings")
+    return False
 
 
 # -- length plans ---------------------------------------------------------------------
@@ -128,19 +153,15 @@ def _ranged_plan(counter, min_length, max_length, mode, method):
         hint = (f" (the shortest string has length {low})" if min_length is None else
                 f" (the longest string has length {high})" if max_length is None else "")
         raise EmptyLanguageError(f"the length range {low} to {high} is empty{hint}")
-    exact = method == "exact" or high <= EXACT_MAX_LENGTH
-    if exact:
-        candidates = [k for k in range(low, high + 1) if counter.count(k)]
-    else:
-        tables = counter.float_tables(high)
-        candidates = [k for k in range(low, high + 1) if tables.has_strings(k)]
+    candidates = [k for k in range(low, high + 1) if counter.has_strings(k)]
     if not candidates:
         raise EmptyLanguageError(f"the language has no strings with length {low} to {high}")
     if mode == "even":
         return candidates, None
-    if exact:
+    exact = method == "exact" or high <= EXACT_MAX_LENGTH
+    if exact and _exact_affordable(counter, high, required=method == "exact"):
         return candidates, [counter.count(k) for k in candidates]
-    relative = counter.float_tables(high).relative_weights(candidates)
+    relative = counter.float_tables(candidates).relative_weights(candidates)
     return candidates, _integer_weights([Fraction(float(w)) for w in relative])
 
 
@@ -156,16 +177,10 @@ def _explicit_plan(counter, pairs, method):
     if not chosen:
         raise ArgumentError("no length has a positive weight")
     for length in chosen:
-        if not _has_strings(counter, length, method):
+        if not counter.has_strings(length):
             raise EmptyLanguageError(f"the language has no strings of length {length}")
     weights = _integer_weights([total[k] for k in chosen])
     return chosen, None if len(set(weights)) == 1 else weights
-
-
-def _has_strings(counter, length: int, method: str) -> bool:
-    if method == "exact" or length <= EXACT_MAX_LENGTH:
-        return counter.count(length) > 0
-    return counter.float_tables(length).has_strings(length)
 
 
 def _integer_weights(fractions: list[Fraction]) -> list[int]:
@@ -200,11 +215,12 @@ def _draw_lengths(candidates, weights, n, rng, bulk: bool) -> list[int]:
 # -- drawing ----------------------------------------------------------------------------
 
 def _draw(counter, n, candidates, weights, rng, method, progress=None) -> list[str]:
-    bulk = use_bulk(n, max(candidates), method)
+    bulk = use_bulk(n, max(candidates), method, counter)
     lengths = _draw_lengths(candidates, weights, n, rng, bulk)
     if bulk:
-        tables = counter.float_tables(int(max(candidates)))
-        return tables.sample(np.asarray(lengths, dtype=np.int64), rng.numpy, progress)
+        lengths = np.asarray(lengths, dtype=np.int64)
+        tables = counter.float_tables(np.flatnonzero(np.bincount(lengths)).tolist())
+        return tables.sample(lengths, rng.numpy, progress)
     out = []
     for i, length in enumerate(lengths):
         out.append(counter.unrank(length, rng.below(counter.count(length))))
@@ -216,7 +232,9 @@ def _draw(counter, n, candidates, weights, rng, method, progress=None) -> list[s
 
 
 def _unique(counter, n, candidates, weights, rng, method) -> list[str]:
-    capacity = [_capacity(counter, k, n, method) for k in candidates]
+    long = [k for k in candidates if method != "exact" and k > EXACT_MAX_LENGTH]
+    tables = counter.float_tables(long) if long else None
+    capacity = [_capacity(counter, k, n, method, tables) for k in candidates]
     available = sum(capacity)
     if available <= n:
         if available < n:
@@ -232,13 +250,12 @@ def _unique(counter, n, candidates, weights, rng, method) -> list[str]:
     return _shuffled(out, rng)
 
 
-def _capacity(counter, length: int, n: int, method: str) -> int:
+def _capacity(counter, length: int, n: int, method: str, tables) -> int:
     """count(length), or a stand-in above 4n when the float tables show it is far larger
     (so that long lengths do not need exact tables)."""
     if method == "exact" or length <= EXACT_MAX_LENGTH:
         return counter.count(length)
-    tables = counter.float_tables(length)
-    if tables.has_strings(length) and int(tables.start_exponent[length]) - 1 > (8 * n).bit_length():
+    if tables.has_strings(length) and tables.start_exponent(length) - 1 > (8 * n).bit_length():
         return 4 * n + 1  # the count is at least 2^(exponent - 1), mantissa >= 1/2
     return counter.count(length)
 

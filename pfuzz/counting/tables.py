@@ -24,10 +24,16 @@ each piece. The strings below a piece then number
 pieces; rank and unrank cost O(length × d × log pieces) big-integer steps
 for out-degree d.
 
-Cost and limits: the tables up to length L hold states × L integers of up
-to L·log2(|alphabet|) bits, O(states × L²) bits in all (``python -m
-pfuzz.benchmarks sampling`` measures a 100-state DFA at L = 1000). Long lengths are what the
-floating-point tables of ``pfuzz.counting.bulk`` are for. Uniform sampling by length
+Cost and limits: the tables up to length L hold up to states × L integers of
+up to L·log2(|alphabet|) bits, O(states × L²) bits in all (``python -m
+pfuzz.benchmarks sampling`` measures a 100-state DFA at L = 1000). Levels with
+few non-zero entries are kept sparse (``pfuzz.counting.levels``): a chain such as
+``[0-9]{5000}`` costs one entry per level. An automaton of at most
+``POWER_STATES`` states counts a length far beyond its levels by matrix powering,
+keeping no levels. ``exact_table_bytes`` bounds what exact tables up to a length
+would take, before they are built. Which lengths have strings (``has_strings``,
+``lengths``) comes from a yes/no recurrence, without counts. Long lengths are what
+the floating-point tables of ``pfuzz.counting.bulk`` are for. Uniform sampling by length
 lives in ``pfuzz.counting.sampler``; ``Counter.sample`` forwards there, and that
 module's docstring states the reproducibility guarantee (same seed, pattern,
 alphabet and versions give the same strings; over ASCII alphabets
@@ -43,8 +49,12 @@ from typing import Iterator
 from pfuzz.automata import algebra
 from pfuzz.automata.dfa import DFA, transitions
 from pfuzz.base.constants import UNBOUNDED_SPAN
+from pfuzz.counting.levels import (POWER_STATES, first_level, forward_sets, next_level,
+                                   nonempty_lengths, power_count)
 from pfuzz.errors import ArgumentError, NotInLanguageError, RankOutOfRangeError
 
+#: Counting a length this far beyond the levels built uses matrix powering (small automata).
+POWER_GAP = 1024
 
 
 class Counter:
@@ -55,24 +65,35 @@ class Counter:
         live = dfa.live_states()
         self.empty = 0 not in live
         self.min_length = algebra.min_length(dfa)
-        self.max_length = algebra.max_length(dfa)
-        self.finite = algebra.is_finite(dfa)
+        longest = algebra.longest_completions(dfa)  # one search for max_length and finiteness
+        self.finite = longest is not None
+        self.max_length = None if longest is None or longest[0] < 0 else longest[0]
         rows = transitions(dfa, live)
         self.groups = [[(t, label.ranges) for label, t in row] for row in rows]
-        self._pieces = [_pieces(groups) for groups in self.groups]
+        self._pieces = _LazyPieces(self.groups)
         self._edges = [tuple((t, len(label)) for label, t in row) for row in rows]
-        self._levels: list[list[int]] = [[1 if s in dfa.accepting else 0
-                                          for s in range(dfa.n_states)]]
+        self._into: list | None = None
+        self._levels: list = [first_level(dfa.accepting, dfa.n_states)]
+        self._nonempty: list[bool] = []
         self._bulk = None
 
     # -- tables ----------------------------------------------------------------------
-    def _table(self, length: int) -> list[int]:
-        """``T[length]``: per state, the strings of that length leading to acceptance."""
+    def _table(self, length: int):
+        """``T[length]``: per state, the strings of that length leading to acceptance
+        (a list, or a sparse ``Level``; both give 0 for a state without strings)."""
         levels, edges = self._levels, self._edges
         while len(levels) <= length:
-            prev = levels[-1]
-            levels.append([sum(w * prev[t] for t, w in out) for out in edges])
+            levels.append(next_level(levels[-1], edges, self._incoming()))
         return levels[length]
+
+    def _incoming(self) -> list:
+        """Per state, its (source, width) pairs: the edges into it."""
+        if self._into is None:
+            self._into = [[] for _ in self._edges]
+            for s, out in enumerate(self._edges):
+                for t, w in out:
+                    self._into[t].append((s, w))
+        return self._into
 
     def count(self, length: int) -> int:
         """The number of accepted strings of exactly ``length`` characters."""
@@ -80,7 +101,34 @@ class Counter:
             raise ArgumentError(f"length must be >= 0, got {length}")
         if self.empty or (self.finite and length > self.max_length):
             return 0
+        if len(self._edges) <= POWER_STATES and length >= len(self._levels) + POWER_GAP:
+            return power_count(self._edges, self.dfa.accepting, length)
         return self._table(length)[0]
+
+    def exact_table_bytes(self, length: int) -> int:
+        """An upper bound of the memory the exact levels up to ``length`` would take beyond
+        those built: one integer below (largest out-width)^r per state that has strings of
+        length r (those states come from a yes/no recurrence, without counts)."""
+        built = len(self._levels)
+        if length < built or self.empty:
+            return 0
+        sources = [[s for s, _ in into] for into in self._incoming()]
+        sizes = forward_sets(sources, length, float("inf"), start=self.dfa.accepting, keep=False)
+        widest = max((sum(w for _, w in out) for out in self._edges), default=1)
+        bits = max(widest, 2).bit_length()
+        return sum(size * (32 + bits * r // 8) for r, size in enumerate(sizes) if r >= built)
+
+    def has_strings(self, length: int) -> bool:
+        """Whether some string of exactly ``length`` characters is accepted (no counts)."""
+        if length < 0 or self.empty or (self.finite and length > self.max_length):
+            return False
+        if length >= len(self._nonempty):
+            successors = [[t for t, _ in out] for out in self._edges]
+            high = max(length, 2 * len(self._nonempty), 64)
+            if self.finite:
+                high = min(high, self.max_length)
+            self._nonempty = nonempty_lengths(successors, self.dfa.accepting, high)
+        return self._nonempty[length]
 
     def default_max_length(self, min_length: int | None = None) -> int:
         """The longest length considered when none is given (documented bound)."""
@@ -115,7 +163,7 @@ class Counter:
     def lengths(self, max_length: int | None = None, min_length: int | None = None) -> list[int]:
         """The lengths up to ``max_length`` (default: as ``bounds``) that have strings."""
         low, high = self.bounds(min_length, max_length)
-        return [n for n in range(low, high + 1) if self.count(n)]
+        return [n for n in range(low, high + 1) if self.has_strings(n)]
 
     # -- ranking ---------------------------------------------------------------------
     def rank(self, text: str) -> int:
@@ -224,13 +272,30 @@ class Counter:
         return sample(self, n, min_length=min_length, max_length=max_length, seed=seed,
                       lengths=lengths, unique=unique, method=method, progress=progress)
 
-    def float_tables(self, max_length: int):
-        """The floating-point tables of ``pfuzz.counting.bulk`` up to ``max_length`` (cached, grown by doubling)."""
+    def float_tables(self, lengths):
+        """The floating-point tables of ``pfuzz.counting.bulk`` for walks to ``lengths`` (an
+        iterable of lengths, or an int L for every length up to L); the last ones are kept
+        and reused while they hold every length asked."""
         from pfuzz.counting.bulk import FloatTables
-        if self._bulk is None or self._bulk.max_length < max_length:
-            grown = max(max_length, 2 * self._bulk.max_length if self._bulk else 0)
-            self._bulk = FloatTables(self, grown)
+        wanted = set(range(lengths + 1)) if isinstance(lengths, int) else {int(m) for m in lengths}
+        if self._bulk is None or not self._bulk.covers(wanted):
+            self._bulk = FloatTables(self, sorted(wanted))
         return self._bulk
+
+
+class _LazyPieces:
+    """``_pieces(groups[s])`` per state, made on first use (ranking and enumeration visit
+    few states of a large automaton)."""
+
+    def __init__(self, groups):
+        self.groups = groups
+        self.made: list = [None] * len(groups)
+
+    def __getitem__(self, state: int) -> "_Pieces":
+        hit = self.made[state]
+        if hit is None:
+            hit = self.made[state] = _pieces(self.groups[state])
+        return hit
 
 
 class _Pieces:

@@ -42,10 +42,15 @@ import heapq
 from pfuzz.automata import algebra
 from pfuzz.base.charset import CharSet
 from pfuzz.automata.dfa import DEAD, DFA, transitions
+from pfuzz.base.constants import EDIT_KINDS
 from pfuzz.nearmiss.edits import Edit, Explanation, apply_edits
 from pfuzz.errors import EmptyLanguageError
 
 __all__ = ["corrector", "explain", "nearest"]
+
+
+#: Bits the memo of ``_states_before`` may hold before it starts afresh (about 32 MB).
+MEMO_BITS = 1 << 28
 
 
 class _Corrector:
@@ -66,20 +71,15 @@ class _Corrector:
         self.pred_any = [sorted(ps) for ps in any_pred]
         self.pred_bits = [[sum(1 << p for p in ps) for ps in column] for column in self.pred]
         self.final_bits = sum(1 << f for f in self.final)
-        self._before: dict[tuple[int, int], int] = {}
+        self._before: list[dict[int, int]] = [{} for _ in range(k)]
+        self._remembered = 0
         self.out = [_targets(row) for row in transitions(dfa)]
+        self.out_bits = [sum(1 << t for t, _, _ in row) for row in self.out]
         self.shortest = algebra.min_length(dfa)
-        self._class_of: dict[str, int] = {}
+        self._class_of = _ClassCache(dfa)
 
     def classes_of(self, text: str) -> list[int]:
-        cache = self._class_of
-        out = []
-        for ch in text:
-            c = cache.get(ch)
-            if c is None:
-                c = cache[ch] = self.dfa.class_of(ch)
-            out.append(c)
-        return out
+        return list(map(self._class_of.__getitem__, text))
 
     def accepts(self, cls: list[int]) -> bool:
         q, table = 0, self.table
@@ -126,58 +126,88 @@ class _Corrector:
         Every string at distance 1 is one edit of the text at a position the
         text's own run still reaches, landing in a state that accepts the rest:
         ``run[i]`` is the state after text[:i], ``rest[i]`` the set (a bitset)
-        of states from which text[i:] is accepted. Ties between scripts for the same
-        witness go to the leftmost edit.
+        of states from which text[i:] is accepted. The candidates are noted as
+        (witness length, position, kind, character); only those of the least
+        length (the shortlex order puts them first) are written out and compared.
+        Ties between scripts for the same witness go to the leftmost edit.
         """
         table, m = self.table, len(text)
-        run = [0]
+        run, q = [0], 0
         for c in cls:
-            nxt = table[run[-1]][c] if c >= 0 else DEAD
-            if nxt == DEAD:
+            if c < 0:
                 break
-            run.append(nxt)
+            q = table[q][c]
+            if q < 0:
+                break
+            run.append(q)
         rest = [0] * (m + 2)
-        rest[m] = self.final_bits
+        rest[m] = states = self.final_bits
+        memo = self._before
         for i in range(m - 1, -1, -1):
-            if cls[i] < 0 or not rest[i + 1]:
+            c = cls[i]
+            if c < 0 or not states:
                 break
-            rest[i] = self._states_before(cls[i], rest[i + 1])
-        found = []
-        for i, q in enumerate(run):
-            if i < m and rest[i + 1] >> q & 1:
-                found.append((m - 1, text[:i] + text[i + 1:], i, "insert", ""))
-            for t, first, second in self.out[q]:
-                if i < m and rest[i + 1] >> t & 1:
-                    new = first if first != text[i] else second
-                    if new is not None:
-                        found.append((m, text[:i] + new + text[i + 1:], i, "replace", new))
-                if rest[i] >> t & 1:
-                    found.append((m + 1, text[:i] + first + text[i:], i, "delete", first))
-            if i + 1 < m and text[i] != text[i + 1] and cls[i + 1] >= 0 and cls[i] >= 0:
-                half = table[q][cls[i + 1]]
-                after = table[half][cls[i]] if half != DEAD else DEAD
-                if after != DEAD and rest[i + 2] >> after & 1:
-                    found.append((m, text[:i] + text[i + 1] + text[i] + text[i + 2:], i, "swap", ""))
+            hit = memo[c].get(states)
+            rest[i] = states = hit if hit is not None else self._states_before(c, states)
+        found = self._candidates(text, cls, run, rest)
         if not found:
             return None
-        _, witness, i, kind, new = min(found)
+        present = {f[2] for f in found}
+        kinds = tuple(k for k in EDIT_KINDS if k in present)
+        shortest = min(f[0] for f in found)
+        _, witness, i, kind, new = min(
+            (length, _written(text, i, kind, new), i, kind, new)
+            for length, i, kind, new in found if length == shortest)
         step = (kind, i) if kind in ("insert", "swap") else (kind, i, new)
-        kinds = tuple(k for k in ("delete", "insert", "replace", "swap")
-                      if any(f[3] == k for f in found))
         return Explanation(text, False, witness, 1, self._script((step, None), text)), kinds
+
+    def _candidates(self, text: str, cls: list[int], run: list[int], rest: list[int]) -> list:
+        """Every single edit that gives a valid string: (its length, position, kind, character)."""
+        table, m, out, reach = self.table, len(text), self.out, self.out_bits
+        found = []
+        add = found.append
+        for i, q in enumerate(run):
+            here, after = rest[i], rest[i + 1]
+            if i < m:
+                if after >> q & 1:
+                    add((m - 1, i, "insert", ""))
+                ch = text[i]
+                if (here | after) & reach[q]:
+                    for t, first, second in out[q]:
+                        if after >> t & 1:
+                            new = first if first != ch else second
+                            if new is not None:
+                                add((m, i, "replace", new))
+                        if here >> t & 1:
+                            add((m + 1, i, "delete", first))
+                if i + 1 < m and ch != text[i + 1] and cls[i + 1] >= 0 and cls[i] >= 0:
+                    half = table[q][cls[i + 1]]
+                    if half != DEAD:
+                        last = table[half][cls[i]]
+                        if last != DEAD and rest[i + 2] >> last & 1:
+                            add((m, i, "swap", ""))
+            elif here & reach[q]:
+                for t, first, _ in out[q]:
+                    if here >> t & 1:
+                        add((m + 1, i, "delete", first))
+        return found
 
     def _states_before(self, c: int, states: int) -> int:
         """The states that class c leads into ``states`` (bitsets; memoised, since the
-        suffixes of many texts lead to the same sets)."""
-        key = (c, states)
-        hit = self._before.get(key)
+        suffixes of many texts lead to the same sets, up to ``MEMO_BITS`` bits in all)."""
+        hit = self._before[c].get(states)
         if hit is None:
             hit, rest, into = 0, states, self.pred_bits[c]
             while rest:
                 low = rest & -rest
                 hit |= into[low.bit_length() - 1]
                 rest ^= low
-            self._before[key] = hit
+            self._remembered += states.bit_length() + hit.bit_length() + 512
+            if self._remembered > MEMO_BITS:
+                for memo in self._before:
+                    memo.clear()
+                self._remembered = 0
+            self._before[c][states] = hit
         return hit
 
     def _costs(self, problem: "_Problem", bound: int) -> None:
@@ -360,6 +390,29 @@ class _Problem:
         self.unit = m + bound + 2  # exceeds any witness length within the bound
         self.h: list[dict] = [{} for _ in range(m + 2)]
         self.best: int | None = None
+
+
+def _written(text: str, i: int, kind: str, new: str) -> str:
+    """The valid string a single edit of ``text`` at ``i`` gives (the witness)."""
+    if kind == "insert":  # the text has an extra character: drop it
+        return text[:i] + text[i + 1:]
+    if kind == "replace":
+        return text[:i] + new + text[i + 1:]
+    if kind == "delete":  # the text lacks a character: put it back
+        return text[:i] + new + text[i:]
+    return text[:i] + text[i + 1] + text[i] + text[i + 2:]
+
+
+class _ClassCache(dict):
+    """Character → class index of a DFA (-1 outside its alphabet), filled on first use."""
+
+    def __init__(self, dfa: DFA):
+        super().__init__()
+        self.dfa = dfa
+
+    def __missing__(self, char: str) -> int:
+        c = self[char] = self.dfa.class_of(char)
+        return c
 
 
 def _targets(row: list[tuple[CharSet, int]]) -> list[tuple[int, str, str | None]]:
