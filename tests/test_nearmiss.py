@@ -236,7 +236,9 @@ def test_rejected_strategy_shrinks_to_the_shortlex_least_reject():
     # [0-9]{3}: the shortest near misses have two digits ("00" is least); at
     # length 4 the least is a space (U+0020, the first printable) before "000".
     assert find(rejected("[0-9]{3}"), lambda s: True, settings=quiet) == "00"
-    assert find(rejected("[0-9]{3}"), lambda s: len(s) == 4, settings=quiet) == " 000"
+    # (the walk alone: with boundary cases a failing boundary case such as "0000" may be
+    # reported instead, as pfuzz.strategies says)
+    assert find(rejected("[0-9]{3}", boundary=0), lambda s: len(s) == 4, settings=quiet) == " 000"
     with pytest.raises(EmptyLanguageError):
         rejected("[ab]*", alphabet="[ab]")
 
