@@ -183,12 +183,25 @@ def test_a_corpus_made_shard_by_shard_replaces_itself_with_force(profile, tmp_pa
     assert joined(tmp_path / "c", "word", "valid") == first
 
 
+@pytest.mark.parametrize("vector_bits", [KeyedPermutation.VECTOR_BITS, 0])
 @pytest.mark.parametrize("size", [1, 2, 3, 17, 1000, 1441, 4096])
-def test_keyed_permutation_is_a_bijection(size):
-    """Brute force: the image of [0, size) is [0, size), every key."""
+def test_keyed_permutation_is_a_bijection(size, vector_bits, monkeypatch):
+    """Brute force: the image of [0, size) is [0, size), every key; both round functions
+    (numpy arrays, and SHAKE-256 one value at a time when vectors are turned off)."""
+    monkeypatch.setattr(KeyedPermutation, "VECTOR_BITS", vector_bits)
     for key in (b"a", b"another key"):
         permute = KeyedPermutation(size, key)
-        assert sorted(permute(i) for i in range(size)) == list(range(size))
+        assert sorted(permute.many(0, size)) == list(range(size))
+        assert [permute(i) for i in range(size)] == list(permute.many(0, size))
+
+
+def test_keyed_permutation_blocks_agree_with_single_values(monkeypatch):
+    """A shard starting mid-block sees the same images as the whole run."""
+    monkeypatch.setattr(KeyedPermutation, "BLOCK", 7)
+    permute = KeyedPermutation(10**9, b"key")
+    whole = list(permute.many(0, 40))
+    assert list(permute.many(13, 29)) == whole[13:29] == [permute(i) for i in range(13, 29)]
+    assert len(set(whole)) == 40 and all(0 <= v < 10**9 for v in whole)
 
 
 def test_feistel_ranks_spread_evenly(corpora):

@@ -34,16 +34,21 @@ permutation (numpy's Fisher–Yates ``permutation`` from a Philox generator keye
 (seed, m)), so the quota is an exactly uniform random subset; every shard remakes
 it (O(count(m)) time and memory, kept per process). Above, an 8-round balanced
 Feistel network (Luby & Rackoff, SIAM J. Comput. 17(2), 1988) on the smallest even
-number of bits that covers count(m), whose round function is SHAKE-256 (FIPS 202)
-keyed by (seed, m), restricted to [0, count(m)) by cycle-walking (Black & Rogaway,
-CT-RSA 2002): apply the network again until the value falls inside; the domain is
-under 4·count(m), so fewer than 4 steps are expected. This is a pseudo-random
-permutation, not an exactly uniform one, and the approximation is stated here:
-with a truly random round function, Luby–Rackoff bounds the advantage of any
-q-query distinguisher by q²/2^h for h-bit halves (h ≥ 11 here); the bound says
-nothing once q approaches 2^(h/2), and beyond that the choice rests on the
-network's standard use (format-preserving encryption, NIST SP 800-38G uses 8 and
-10 rounds). Distinctness is exact either way (a bijection).
+number of bits that covers count(m), keyed by (seed, m), restricted to
+[0, count(m)) by cycle-walking (Black & Rogaway, CT-RSA 2002): apply the network
+again until the value falls inside; the domain is under 4·count(m), so fewer than
+4 steps are expected. The round function is, for halves up to 31 bits (counts
+below 2^62), the SplitMix64 finaliser (Steele, Lea & Flood, OOPSLA 2014) of the
+half XOR a round key, run on numpy arrays, the round keys from SHAKE-256 (FIPS
+202) of the key; for wider halves SHAKE-256 of (key, round, half) itself, one
+value at a time. This is a pseudo-random permutation, not an exactly uniform one,
+and the approximation is stated here: with truly random round functions,
+Luby–Rackoff bounds the advantage of any q-query distinguisher by q²/2^h for h-bit
+halves (h ≥ 11 here); the bound says nothing once q approaches 2^(h/2), and
+SplitMix64 is a statistical mixer, not a cryptographic one. Beyond the bound the
+choice rests on the network's standard use (format-preserving encryption: NIST SP
+800-38G uses 8 and 10 rounds) and on the tests (a chi-square test of the drawn
+strings). Distinctness is exact either way (a bijection).
 
 Rejects are drawn by the same scheme from the whole near-miss language of the
 field's edit kinds (the unsharded writer gives each kind an equal share instead),
@@ -54,7 +59,8 @@ deterministic and stays one file.
 Left out in this mode: cases.csv and qa.xlsx (one table of every case is what
 sharding avoids), and record rows (drawn from one sequential generator; the
 manifest says so). Cost per case: one unrank (O(length × log pieces) big-integer
-steps) plus about 8 hashes per Feistel step, or for rejects one explanation; per
+steps) plus 8 vectorised rounds per Feistel step (or 8 hashes for counts of 2^62 and
+more), and for rejects one explanation; per
 shard, the quotas (O(n) vectorised draws) and the small exact permutations. Memory
 per shard: the quotas, the small permutations' first quota entries, one row at a
 time. Shards run through ``pfuzz.scale.run_shards`` (in this process by default,
@@ -98,7 +104,15 @@ SHARDED_PARTS = ("valid", "rejects")
 # -- the keyed permutation --------------------------------------------------------------
 
 class KeyedPermutation:
-    """A bijection of [0, size) keyed by ``key`` (bytes): cycle-walked 8-round Feistel."""
+    """A bijection of [0, size) keyed by ``key`` (bytes): cycle-walked 8-round Feistel.
+
+    Halves of at most ``VECTOR_BITS`` bits run as numpy arrays with a 64-bit round
+    function (the SplitMix64 finaliser of the half XOR a round key, the round keys from
+    SHAKE-256 of the key); wider halves run one value at a time with SHAKE-256 as the
+    round function."""
+
+    VECTOR_BITS = 31
+    BLOCK = 1 << 16
 
     def __init__(self, size: int, key: bytes):
         if size <= 0:
@@ -108,6 +122,8 @@ class KeyedPermutation:
         self.mask = (1 << self.half) - 1
         self.width = (self.half + 7) // 8
         self._keyed = hashlib.shake_256(len(key).to_bytes(4, "big") + key)
+        round_keys = self._keyed.copy().digest(8 * FEISTEL_ROUNDS)
+        self._round_keys = np.frombuffer(round_keys, dtype=">u8").astype(np.uint64)
 
     def _round(self, number: int, value: int) -> int:
         state = self._keyed.copy()
@@ -120,13 +136,43 @@ class KeyedPermutation:
             left, right = right, left ^ self._round(number, right)
         return (left << self.half) | right
 
+    def _network_array(self, values):
+        half, mask = np.uint64(self.half), np.uint64(self.mask)
+        left, right = values >> half, values & mask
+        for number in range(FEISTEL_ROUNDS):
+            z = right ^ self._round_keys[number]
+            z = (z ^ (z >> np.uint64(30))) * np.uint64(0xBF58476D1CE4E5B9)
+            z = (z ^ (z >> np.uint64(27))) * np.uint64(0x94D049BB133111EB)
+            left, right = right, left ^ ((z ^ (z >> np.uint64(31))) & mask)
+        return (left << half) | right
+
     def __call__(self, index: int) -> int:
         if not 0 <= index < self.size:
             raise ArgumentError(f"index {index} is outside [0, {self.size})")
-        value = self._network(index)
+        return next(iter(self.many(index, index + 1)))
+
+    def many(self, first: int, last: int):
+        """The images of ``first..last`` (an iterator of ints), in blocks of ``BLOCK``."""
+        if not 0 <= first <= last <= self.size:
+            raise ArgumentError(f"[{first}, {last}) is outside [0, {self.size})")
+        if self.half > self.VECTOR_BITS:
+            return (self._walk(t) for t in range(first, last))
+        return (value for low in range(first, last, self.BLOCK)
+                for value in self._walk_array(low, min(last, low + self.BLOCK)))
+
+    def _walk(self, value: int) -> int:
+        value = self._network(value)
         while value >= self.size:          # cycle-walking: stays a bijection of [0, size)
             value = self._network(value)
         return value
+
+    def _walk_array(self, low: int, high: int) -> list[int]:
+        values = self._network_array(np.arange(low, high, dtype=np.uint64))
+        outside = values >= np.uint64(self.size)
+        while outside.any():
+            values[outside] = self._network_array(values[outside])
+            outside = values >= np.uint64(self.size)
+        return values.tolist()
 
 
 def _philox(key: int, purpose: int, length: int = 0):
@@ -182,7 +228,7 @@ def _ranks(key: int, length: int, size: int, quota: int, first: int, last: int):
         chosen = _small_permutation(key, length, size, quota)
         return iter(chosen[first:last])
     permute = KeyedPermutation(size, key.to_bytes(16, "big") + length.to_bytes(8, "big"))
-    return (permute(t) for t in range(first, last))
+    return permute.many(first, last)
 
 
 def keyed_cases(language, counts: dict[int, int], asked: int, key: int, start: int,
