@@ -21,6 +21,9 @@ instead (shortlex enumeration). Rejects are drawn from the near-miss language
 N_d(L) − L (``Language.rejects``) without repeats, each with its nearest valid
 witness and edit script. Boundary suites come from ``pfuzz.boundary.suite``.
 
+``pfuzz corpus --shards K`` writes a variant whose case i depends only on the seed and
+i, split into K files (``pfuzz.corpus.shards``); this module's corpus is unchanged by it.
+
 Length window: a finite field uses all its lengths; an unbounded one uses its
 shortest valid length up to that plus ``pfuzz.counting.tables.UNBOUNDED_SPAN`` (the
 same bound as its boundary suite, recorded in the manifest); rejects may be
