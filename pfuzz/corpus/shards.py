@@ -82,10 +82,8 @@ from pfuzz.base.files import Checksum, atomic_writer
 from pfuzz.base.jsonlines import json_text, jsonl_line
 from pfuzz.corpus.formats import CHECKSUMS_NAME, FORMAT_TAG, MANIFEST_NAME, Staging, check_target
 from pfuzz.corpus.rows import edit_list
-from pfuzz.base.randomness import RandomSource
 from pfuzz.corpus.writer import (FieldCases, _boundary_items, _child_seeds, _choose_seed,
                                  _field_manifest, _versions, _window, field_language)
-from pfuzz.counting.sampler import _quotas
 from pfuzz.errors import ArgumentError
 from pfuzz.nearmiss.rejects import Reject, kinds_of
 from pfuzz.profile.loader import Profile, load_profile
@@ -97,6 +95,8 @@ SAMPLING = "keyed"
 #: Counts up to this get an exactly uniform permutation; above, the keyed Feistel network.
 EXACT_PERMUTATION_LIMIT = 1 << 20
 FEISTEL_ROUNDS = 8
+#: Lengths drawn per vectorised batch when the quotas are made.
+_QUOTA_BATCH = 1 << 20
 _QUOTAS, _PERMUTATION = 1, 2               # Philox counter words: what a stream is for
 SHARDED_PARTS = ("valid", "rejects")
 
@@ -195,26 +195,40 @@ class _Plan:
 
 
 def _plan(counts: dict[int, int], asked: int, key: int) -> _Plan:
-    lengths = sorted(k for k, c in counts.items() if c)
+    return _cached_plan(tuple(sorted((k, c) for k, c in counts.items() if c)), asked, key)
+
+
+@lru_cache(maxsize=64)
+def _cached_plan(pairs: tuple[tuple[int, int], ...], asked: int, key: int) -> _Plan:
+    """The plan, made once per process (every shard of a part needs the same one)."""
+    counts = dict(pairs)
+    lengths = [k for k, _ in pairs]
     if sum(counts[k] for k in lengths) <= asked:
         return _Plan(tuple((k, counts[k]) for k in lengths), True)
     quotas = _length_quotas(asked, [counts[k] for k in lengths], key)
     return _Plan(tuple((k, q) for k, q in zip(lengths, quotas) if q), False)
 
 
-class _KeyedSource(RandomSource):
-    """A ``RandomSource`` whose numpy face is a given (Philox) generator."""
-
-    def __init__(self, generator):
-        super().__init__(0)
-        self._numpy = generator
-
-
 def _length_quotas(n: int, capacity: list[int], key: int) -> list[int]:
-    """The ``"even"`` plan with full lengths redrawn (the sampler's own quotas), from
-    exactly uniform integer draws of the keyed generator (its vectorised path)."""
-    m = len(capacity)
-    return _quotas(n, list(range(m)), None, capacity, _KeyedSource(_philox(key, _QUOTAS)), "bulk")
+    """The ``"even"`` plan with full lengths redrawn (as ``pfuzz.counting.sampler`` makes
+    its quotas): exactly uniform integer draws from the keyed generator, counted in
+    batches of ``_QUOTA_BATCH`` so memory stays bounded for any n."""
+    generator = _philox(key, _QUOTAS)
+    quota, open_lengths, need = [0] * len(capacity), list(range(len(capacity))), n
+    while need:
+        hits = np.zeros(len(open_lengths), dtype=np.int64)
+        for done in range(0, need, _QUOTA_BATCH):
+            drawn = generator.integers(0, len(open_lengths), size=min(_QUOTA_BATCH, need - done))
+            hits += np.bincount(drawn, minlength=len(open_lengths))
+        need, still = 0, []
+        for j, got in zip(open_lengths, hits.tolist()):
+            taken = min(got, capacity[j] - quota[j])
+            quota[j] += taken
+            need += got - taken
+            if quota[j] < capacity[j]:
+                still.append(j)
+        open_lengths = still
+    return quota
 
 
 @lru_cache(maxsize=64)
