@@ -23,7 +23,8 @@ from click.testing import CliRunner
 from pfuzz.base.jsonlines import read_jsonl
 from pfuzz.cli import main
 from pfuzz.corpus import shards as sharding
-from pfuzz.corpus.shards import KeyedPermutation, case_ranges, write_sharded_corpus
+from pfuzz.base.permutation import KeyedPermutation
+from pfuzz.corpus.shards import case_ranges, write_sharded_corpus
 
 PATTERNS = {
     "hhmm": r"([01][0-9]|2[0-3]):[0-5][0-9]",     # 1,440 strings: exact permutations

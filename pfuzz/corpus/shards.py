@@ -32,23 +32,11 @@ n cases from a language over a length window:
 The bijection π_m: when count(m) ≤ ``EXACT_PERMUTATION_LIMIT``, a uniformly random
 permutation (numpy's Fisher–Yates ``permutation`` from a Philox generator keyed by
 (seed, m)), so the quota is an exactly uniform random subset; every shard remakes
-it (O(count(m)) time and memory, kept per process). Above, an 8-round balanced
-Feistel network (Luby & Rackoff, SIAM J. Comput. 17(2), 1988) on the smallest even
-number of bits that covers count(m), keyed by (seed, m), restricted to
-[0, count(m)) by cycle-walking (Black & Rogaway, CT-RSA 2002): apply the network
-again until the value falls inside; the domain is under 4·count(m), so fewer than
-4 steps are expected. The round function is, for halves up to 31 bits (counts
-below 2^62), the SplitMix64 finaliser (Steele, Lea & Flood, OOPSLA 2014) of the
-half XOR a round key, run on numpy arrays, the round keys from SHAKE-256 (FIPS
-202) of the key; for wider halves SHAKE-256 of (key, round, half) itself, one
-value at a time. This is a pseudo-random permutation, not an exactly uniform one,
-and the approximation is stated here: with truly random round functions,
-Luby–Rackoff bounds the advantage of any q-query distinguisher by q²/2^h for h-bit
-halves (h ≥ 11 here); the bound says nothing once q approaches 2^(h/2), and
-SplitMix64 is a statistical mixer, not a cryptographic one. Beyond the bound the
-choice rests on the network's standard use (format-preserving encryption: NIST SP
-800-38G uses 8 and 10 rounds) and on the tests (a chi-square test of the drawn
-strings). Distinctness is exact either way (a bijection).
+it (O(count(m)) time and memory, kept per process). Above, a cycle-walked 8-round
+Feistel network keyed by (seed, m) (``pfuzz.base.permutation.KeyedPermutation``):
+a pseudo-random permutation, not an exactly uniform one; its method, the bound on
+its error and where that bound stops saying anything are in that module.
+Distinctness is exact either way (a bijection).
 
 Rejects are drawn by the same scheme from the whole near-miss language of the
 field's edit kinds (the unsharded writer gives each kind an equal share instead),
@@ -70,7 +58,6 @@ the workers must share this machine's file system.
 
 from __future__ import annotations
 
-import hashlib
 from dataclasses import dataclass
 from functools import lru_cache
 from pathlib import Path
@@ -79,6 +66,7 @@ from typing import Callable
 import numpy as np
 
 from pfuzz.base.files import Checksum, atomic_writer
+from pfuzz.base.permutation import KeyedPermutation
 from pfuzz.base.jsonlines import json_text, jsonl_line
 from pfuzz.corpus.formats import CHECKSUMS_NAME, FORMAT_TAG, MANIFEST_NAME, Staging, check_target
 from pfuzz.corpus.rows import edit_list
@@ -88,91 +76,16 @@ from pfuzz.errors import ArgumentError
 from pfuzz.nearmiss.rejects import Reject, kinds_of
 from pfuzz.profile.loader import Profile, load_profile
 
-__all__ = ["EXACT_PERMUTATION_LIMIT", "FEISTEL_ROUNDS", "KeyedPermutation", "SAMPLING",
+__all__ = ["EXACT_PERMUTATION_LIMIT", "SAMPLING",
            "ShardedSummary", "case_ranges", "keyed_cases", "write_sharded_corpus"]
 
 SAMPLING = "keyed"
 #: Counts up to this get an exactly uniform permutation; above, the keyed Feistel network.
 EXACT_PERMUTATION_LIMIT = 1 << 20
-FEISTEL_ROUNDS = 8
 #: Lengths drawn per vectorised batch when the quotas are made.
 _QUOTA_BATCH = 1 << 20
 _QUOTAS, _PERMUTATION = 1, 2               # Philox counter words: what a stream is for
 SHARDED_PARTS = ("valid", "rejects")
-
-
-# -- the keyed permutation --------------------------------------------------------------
-
-class KeyedPermutation:
-    """A bijection of [0, size) keyed by ``key`` (bytes): cycle-walked 8-round Feistel.
-
-    Halves of at most ``VECTOR_BITS`` bits run as numpy arrays with a 64-bit round
-    function (the SplitMix64 finaliser of the half XOR a round key, the round keys from
-    SHAKE-256 of the key); wider halves run one value at a time with SHAKE-256 as the
-    round function."""
-
-    VECTOR_BITS = 31
-    BLOCK = 1 << 16
-
-    def __init__(self, size: int, key: bytes):
-        if size <= 0:
-            raise ArgumentError(f"a permutation needs a positive size, not {size}")
-        bits = max(2, (size - 1).bit_length())
-        self.size, self.half = size, (bits + 1) // 2
-        self.mask = (1 << self.half) - 1
-        self.width = (self.half + 7) // 8
-        self._keyed = hashlib.shake_256(len(key).to_bytes(4, "big") + key)
-        round_keys = self._keyed.copy().digest(8 * FEISTEL_ROUNDS)
-        self._round_keys = np.frombuffer(round_keys, dtype=">u8").astype(np.uint64)
-
-    def _round(self, number: int, value: int) -> int:
-        state = self._keyed.copy()
-        state.update(bytes([number]) + value.to_bytes(self.width, "big"))
-        return int.from_bytes(state.digest(self.width), "big") & self.mask
-
-    def _network(self, value: int) -> int:
-        left, right = value >> self.half, value & self.mask
-        for number in range(FEISTEL_ROUNDS):
-            left, right = right, left ^ self._round(number, right)
-        return (left << self.half) | right
-
-    def _network_array(self, values):
-        half, mask = np.uint64(self.half), np.uint64(self.mask)
-        left, right = values >> half, values & mask
-        for number in range(FEISTEL_ROUNDS):
-            z = right ^ self._round_keys[number]
-            z = (z ^ (z >> np.uint64(30))) * np.uint64(0xBF58476D1CE4E5B9)
-            z = (z ^ (z >> np.uint64(27))) * np.uint64(0x94D049BB133111EB)
-            left, right = right, left ^ ((z ^ (z >> np.uint64(31))) & mask)
-        return (left << half) | right
-
-    def __call__(self, index: int) -> int:
-        if not 0 <= index < self.size:
-            raise ArgumentError(f"index {index} is outside [0, {self.size})")
-        return next(iter(self.many(index, index + 1)))
-
-    def many(self, first: int, last: int):
-        """The images of ``first..last`` (an iterator of ints), in blocks of ``BLOCK``."""
-        if not 0 <= first <= last <= self.size:
-            raise ArgumentError(f"[{first}, {last}) is outside [0, {self.size})")
-        if self.half > self.VECTOR_BITS:
-            return (self._walk(t) for t in range(first, last))
-        return (value for low in range(first, last, self.BLOCK)
-                for value in self._walk_array(low, min(last, low + self.BLOCK)))
-
-    def _walk(self, value: int) -> int:
-        value = self._network(value)
-        while value >= self.size:          # cycle-walking: stays a bijection of [0, size)
-            value = self._network(value)
-        return value
-
-    def _walk_array(self, low: int, high: int) -> list[int]:
-        values = self._network_array(np.arange(low, high, dtype=np.uint64))
-        outside = values >= np.uint64(self.size)
-        while outside.any():
-            values[outside] = self._network_array(values[outside])
-            outside = values >= np.uint64(self.size)
-        return values.tolist()
 
 
 def _philox(key: int, purpose: int, length: int = 0):
