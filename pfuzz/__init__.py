@@ -16,18 +16,36 @@ What users receive is exported here; the stage packages below it (``base``,
 ``corpus``, ``audit``) are the pipeline's rooms, importable but not the API.
 """
 
-from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA
-from pfuzz.base.charset import ALPHABETS, CharSet
-from pfuzz.boundary.suite import Case
+import importlib
+
 from pfuzz.errors import (AlphabetError, ArgumentError, CorpusExistsError, EmptyLanguageError,
                           GraphvizError, NotInLanguageError, OutputError, PatternError,
                           PfuzzError, PfuzzWarning, ProfileError, RankOutOfRangeError,
                           ResourceLimitError, StateLimitError, TargetError)
-from pfuzz.language import Language, compile
-from pfuzz.nearmiss.edits import Edit, Explanation
-from pfuzz.nearmiss.rejects import Reject
 
 __version__ = "0.1.0"
+
+#: The home of each other name exported here: imported on first use (PEP 562), so that
+#: ``import pfuzz`` and short commands do not load every stage (nor numpy).
+_HOMES = {
+    "DEFAULT_STATE_CAP": "pfuzz.automata.dfa", "DFA": "pfuzz.automata.dfa",
+    "ALPHABETS": "pfuzz.base.charset", "CharSet": "pfuzz.base.charset",
+    "Case": "pfuzz.boundary.suite", "Language": "pfuzz.language", "compile": "pfuzz.language",
+    "Edit": "pfuzz.nearmiss.edits", "Explanation": "pfuzz.nearmiss.edits",
+    "Reject": "pfuzz.nearmiss.rejects",
+}
+
+
+def __getattr__(name: str):
+    home = _HOMES.get(name)
+    if home is None:
+        raise AttributeError(f"module 'pfuzz' has no attribute {name!r}")
+    value = globals()[name] = getattr(importlib.import_module(home), name)
+    return value
+
+
+def __dir__() -> list[str]:
+    return sorted(set(globals()) | set(_HOMES))
 
 __all__ = [
     "ALPHABETS", "AlphabetError", "ArgumentError", "Case", "CharSet", "CorpusExistsError", "DFA",

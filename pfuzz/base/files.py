@@ -45,15 +45,11 @@ target's folder (for stale siblings); the streaming writer holds one buffer
 
 from __future__ import annotations
 
-import hashlib
 import io
 import os
 import re
-import shutil
 import signal
-import socket
 import stat
-import tempfile
 import threading
 from contextlib import contextmanager
 from pathlib import Path
@@ -74,6 +70,7 @@ class Checksum:
     """The SHA-256 digest and the size of the bytes written so far."""
 
     def __init__(self) -> None:
+        import hashlib  # here and below: imported on use, so short commands start faster
         self._hash = hashlib.sha256()
         self.size = 0
 
@@ -160,6 +157,8 @@ def terminate_as_interrupt() -> Iterator[None]:
 # -- owners of temporary siblings ------------------------------------------------------
 
 def _host_tag() -> str:
+    import hashlib
+    import socket
     return hashlib.sha256(socket.gethostname().encode("utf-8", "replace")).hexdigest()[:12]
 
 
@@ -203,6 +202,7 @@ def remove_stale(path: Path, suffix: str, keep: Callable[[Path], bool] = lambda 
         if keep(sibling):
             continue
         if sibling.is_dir() and not sibling.is_symlink():
+            import shutil
             shutil.rmtree(sibling, ignore_errors=True)
         else:
             try:
@@ -252,6 +252,7 @@ def _temporary_sibling(path: Path) -> Iterator[BinaryIO]:
     check_target_file(path)
     path.parent.mkdir(parents=True, exist_ok=True)
     remove_stale(path, ".tmp")
+    import tempfile
     with terminate_as_interrupt():
         fd, temp = tempfile.mkstemp(prefix=owned_prefix(path), suffix=".tmp", dir=path.parent)
         try:
@@ -303,6 +304,7 @@ def atomic_writer(path: "str | Path", encoding: str = "utf-8", newline: str | No
 
 
 def sha256_of(data: "str | bytes") -> str:
+    import hashlib
     raw = data.encode("utf-8") if isinstance(data, str) else data
     return hashlib.sha256(raw).hexdigest()
 
