@@ -243,6 +243,27 @@ def test_cli_shards_writes_the_same_union(profile, corpora, tmp_path):
         assert joined(out, field, part) == joined(corpora[1], field, part)
 
 
+def test_quotas_drawn_in_small_batches_still_fill_every_length(monkeypatch):
+    """Brute-force capacities: the quotas sum to n, never pass a length's count, and a
+    length that is full hands its excess to the others."""
+    monkeypatch.setattr(sharding, "_QUOTA_BATCH", 7)
+    capacity = [3, 1000, 5, 1000]
+    quotas = sharding._length_quotas(600, capacity, key=99)
+    assert sum(quotas) == 600 and quotas[0] == 3 and quotas[2] == 5
+    assert all(0 <= q <= c for q, c in zip(quotas, capacity))
+    assert sharding._length_quotas(2008, capacity, key=1) == capacity
+
+
+def test_shards_made_on_a_dask_cluster_give_the_same_union(profile, corpora, tmp_path):
+    """The same shard functions run in worker processes (pfuzz[scale])."""
+    pytest.importorskip("distributed")
+    from pfuzz.scale import RunSettings
+
+    write_sharded_corpus(profile, tmp_path / "dask", shards=3, settings=RunSettings(workers=1))
+    for field, part in itertools.product(PATTERNS, PARTS):
+        assert joined(tmp_path / "dask", field, part) == joined(corpora[1], field, part)
+
+
 def test_cli_refuses_html_with_shards_and_zero_shards(profile, tmp_path):
     runner = CliRunner()
     html = runner.invoke(main, ["corpus", str(profile), "--out", str(tmp_path / "a"),
@@ -252,3 +273,6 @@ def test_cli_refuses_html_with_shards_and_zero_shards(profile, tmp_path):
     zero = runner.invoke(main, ["corpus", str(profile), "--out", str(tmp_path / "b"),
                                 "--shards", "0"])
     assert zero.exit_code == 2
+    alone = runner.invoke(main, ["corpus", str(profile), "--out", str(tmp_path / "c"),
+                                 "--workers", "2"])
+    assert alone.exit_code == 2 and "--shards" in alone.output

@@ -57,6 +57,9 @@ def corpus(ctx, profile_path, out, seed, force, boundary_limit, state_cap, html_
       pfuzz corpus time24 --out time-corpus --shards 4
     """
     profile = load_profile(profile_path, state_cap)
+    if workers and shards is None:
+        from pfuzz.errors import ArgumentError
+        raise ArgumentError("--workers applies to --shards; add --shards K")
     if shards is not None:
         return _run_sharded(profile, out, seed, force, boundary_limit, shards, workers, html_out)
     with warnings.catch_warnings(record=True) as caught:
