@@ -69,3 +69,28 @@ def test_from_strings_and_class_lookup():
     assert d.class_of("z") == -1 and not d.accepts("abz")
     assert automata.universal(ALPHABET).accepts("cab")
     assert automata.empty(ALPHABET).is_empty()
+
+
+def test_explore_numbers_breadth_first_and_stops_at_the_cap():
+    import pytest
+
+    from pfuzz.errors import StateLimitError
+
+    alphabet = CharSet.from_chars("ab")
+    classes = partition([CharSet.single("a")], alphabet)
+
+    def step(word, c):  # the binary words of length up to 4, one state each
+        return word + "ab"[c] if len(word) < 4 else None
+
+    d = explore("", step, lambda w: len(w) == 4, classes, alphabet)
+    assert d.n_states == 31  # 1 + 2 + 4 + 8 + 16 (common practice: a full binary tree)
+    assert d.table[0] == (1, 2) and d.table[1] == (3, 4) and d.table[30] == (DEAD, DEAD)
+    assert d.accepting == frozenset(range(15, 31))
+    assert explore("", step, lambda w: len(w) == 4, classes, alphabet, cap=31) == d
+    with pytest.raises(StateLimitError, match="30"):
+        explore("", step, lambda w: len(w) == 4, classes, alphabet, cap=30)
+
+
+def test_explore_without_classes():
+    d = explore(0, lambda s, c: None, lambda s: True, (), CharSet())
+    assert d.n_states == 1 and d.table == ((),) and d.accepting == frozenset({0})
