@@ -103,3 +103,41 @@ def test_as_dict_is_plain_data(plate):
     assert explain(plate, "AB12O4").as_dict() == {
         "text": "AB12O4", "accepted": False, "witness": "AB1204", "distance": 1,
         "edits": [{"kind": "replace", "position": 4, "old": "0", "new": "O"}]}
+
+
+def test_one_edit_answers_equal_the_full_program(monkeypatch):
+    # The quick path (candidates written out only at the witness length) against the
+    # correction program alone, which sees every alignment: same witness, same script.
+    from pfuzz.nearmiss import witness as module
+
+    dfa = pfuzz.compile(r"[a-c]{1,4}@[a-c]{1,3}\.(ab|cab)").dfa
+    tables = corrector(dfa)
+    rng = random.Random(11)
+    seen = 0
+    for _ in range(400):  # a valid string, then one random edit of it
+        text = "".join(rng.choice("abc") for _ in range(rng.randint(1, 4))) + "@" + \
+            "".join(rng.choice("abc") for _ in range(rng.randint(1, 3))) + rng.choice([".ab", ".cab"])
+        i = rng.randrange(len(text) + 1)
+        edited = rng.choice([text[:i] + rng.choice("abc@.x") + text[i:], text[:i] + text[i + 1:],
+                             text[:i] + rng.choice("abc@.x") + text[i + 1:]])
+        quick = tables.one_edit(edited)
+        if quick is None:
+            continue
+        seen += 1
+        monkeypatch.setattr(module._Corrector, "_one_edit", lambda self, text, cls: None)
+        full = tables.nearest(edited)
+        monkeypatch.undo()
+        assert (quick[0].witness, quick[0].edits, quick[0].distance) == \
+            (full.witness, full.edits, full.distance)
+        assert apply_edits(full.witness, full.edits) == edited
+    assert seen > 200
+
+
+def test_a_small_memo_changes_nothing(plate, monkeypatch):
+    from pfuzz.nearmiss import witness as module
+
+    texts = ["AB12O4", "AB1234X", "A1234", "BA1234", "AB 1234", "ab1234"]
+    expected = [explain(plate, t) for t in texts]
+    module.clear_caches()
+    monkeypatch.setattr(module, "MEMO_BITS", 64)  # forgets after almost every entry
+    assert [explain(plate, t) for t in texts] == expected

@@ -111,3 +111,35 @@ def test_proportional_lengths_beyond_the_exact_tables():
     drawn = lang.sample(n, min_length=1500, max_length=1502, lengths="proportional", seed=4)
     shares = {1500: 1 / 7, 1501: 2 / 7, 1502: 4 / 7}
     assert p_value(Counter(map(len, drawn)), shares, n) > ALPHA
+
+
+@pytest.mark.parametrize("pattern,lengths,size", [
+    (r"[ab][0-2][xyz]{2}", [4], 54),            # one length, every level uniform: columns
+    (r"[a-e]{3}", [3], 125),                    # one character set everywhere: one draw
+    (r"[ab]{1,3}[0-2]", [2, 3, 4], 6 + 12 + 24),  # several lengths, uniform levels: staircase
+])
+def test_uniform_levels_draw_every_string_equally_often(pattern, lengths, size):
+    lang = pfuzz.compile(pattern)
+    assert sum(lang.count(m) for m in lengths) == size
+    n = 200 * size
+    drawn = lang.sample(n, lengths=lengths, seed=17, method="bulk")
+    for m in lengths:
+        of_length = [s for s in drawn if len(s) == m]
+        observed = Counter(lang.rank(s) for s in of_length)
+        cells = lang.count(m)
+        assert p_value(observed, {i: 1 / cells for i in range(cells)}, len(of_length)) > ALPHA
+
+
+def test_edge_alias_tables_are_uniform_too(monkeypatch):
+    # The same check with one slot per edge (the layout for tables too large for one
+    # slot per character): the edge by its alias table, the character uniformly inside it.
+    from pfuzz.counting import bulk
+
+    monkeypatch.setattr(bulk, "CHARACTER_SLOT_BUDGET", 0)
+    lang = pfuzz.compile(r"x[0-9]{2}|[a-d][a-z][0-2]")
+    size = lang.count(3)
+    n = size * 120
+    drawn = lang.sample(n, seed=21, method="bulk")
+    assert not lang.counter._bulk.per_character
+    observed = Counter(lang.rank(s) for s in drawn)
+    assert p_value(observed, {i: 1 / size for i in range(size)}, n) > ALPHA
