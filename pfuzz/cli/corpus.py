@@ -95,9 +95,16 @@ def _run_sharded(profile, out: Path, seed, force: bool, boundary_limit, shards: 
     if html_out is not None:
         raise ArgumentError("--html reads a corpus's single files; it cannot be combined "
                             "with --shards")
-    summary = write_sharded_corpus(profile, out, seed, shards=shards, force=force,
-                                   boundary_limit=boundary_limit,
-                                   settings=RunSettings(workers=workers))
+    run = lambda progress=None: write_sharded_corpus(  # noqa: E731
+        profile, out, seed, shards=shards, force=force, boundary_limit=boundary_limit,
+        settings=RunSettings(workers=workers), progress=progress)
+    if not sys.stderr.isatty():
+        summary = run()
+    else:
+        steps = len(profile.fields) * (1 + 2 * shards) + 1
+        with click.progressbar(length=steps, label="pfuzz corpus", file=sys.stderr,
+                               item_show_func=lambda label: label) as bar:
+            summary = run(lambda label: bar.update(1, label))
     total = sum(info["bytes"] for info in summary.files.values())
     note(f"wrote {summary.out_dir}/ ({len(summary.files)} files, {_size(total)}, "
          f"seed {summary.seed}, {shards} shards, keyed sampling)")
