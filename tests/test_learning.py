@@ -9,7 +9,6 @@ no check reads a clock.
 
 from __future__ import annotations
 
-import itertools
 import json
 import re
 
@@ -226,6 +225,13 @@ def test_equal_counts_end_with_the_query_budget():
                   max_queries=3_000)
     assert model.budget_exhausted == "queries" and model.queries <= 3_000
     assert not model.equals_specification
+
+
+def test_a_budget_too_small_for_a_first_hypothesis_gives_no_guarantee():
+    model = learn(fullmatch("[0-9]{2}"), pfuzz.compile("[0-9]{2}"), max_queries=1)
+    assert model.budget_exhausted == "queries" and model.queries <= 1
+    assert model.conformance_depth is None and model.guarantee().startswith("none:")
+    assert len(model.classes) == 2  # the specification's: [0-9] and the rest
 
 
 def test_guarantee_states_both_conditions():

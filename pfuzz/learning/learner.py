@@ -111,7 +111,7 @@ class _Learning:
         self.max_states, self.extra_states, self.tests = max_states, extra_states, tests
         self.tree: Tree | None = None
         self.hypothesis: DFA | None = None
-        self.classes: list[SymbolClass] = []
+        self.classes: list[SymbolClass] = [symbols.classes[a] for a in symbols.ordered()]
         self.depth: int | None = None
         self.exhausted: str | None = None
         self.pending = False
