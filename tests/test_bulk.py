@@ -144,19 +144,37 @@ def test_long_strings_take_the_bulk_path_with_bounded_tables():
 
 
 def test_tables_hold_only_the_pairs_a_walk_can_meet():
-    # A chain: the walk to length m is at state min(i, 5000) after i characters, so the
-    # tables need about one pair per drawn length and remaining length, not 5,001 x 5,033.
-    lang = pfuzz.compile(r"[a-c]{5000,}")
+    # A chain: the walk to length m is at state min(i, 5000) after i characters (or in the
+    # state after the final c), so the tables need about two pairs per drawn length and
+    # remaining length, not 5,002 x 5,033.
+    lang = pfuzz.compile(r"[ab]{5000,}c?")
     strings = lang.sample(40, seed=4)
-    assert all(len(s) >= 5000 and re.fullmatch(r"[a-c]{5000,}", s) for s in strings)
+    assert all(len(s) >= 5000 and re.fullmatch(r"[ab]{5000,}c?", s) for s in strings)
     tables = lang.counter._bulk
-    assert not tables.dense
-    assert tables.n_pairs <= len(tables.lengths) * 5033
-    dense = FloatTables(pfuzz.compile(r"[a-c]{50,}").counter, 60)
-    sparse = FloatTables(pfuzz.compile(r"[a-c]{50,}").counter, [55, 60])
+    assert not tables.dense and not tables.single_path
+    assert tables.n_pairs <= 2 * len(tables.lengths) * 5033
+    dense = FloatTables(pfuzz.compile(r"[ab]{50,}c?").counter, 60)
+    sparse = FloatTables(pfuzz.compile(r"[ab]{50,}c?").counter, [55, 60])
+    assert dense.dense and not sparse.dense
     for m in (55, 60):
-        assert sparse.start_exponent(m) == dense.start_exponent(m)
-        assert sparse.mantissa[sparse.start(m)] == dense.mantissa[dense.start(m)]
+        assert sparse.start_count(m) == dense.start_count(m)
+
+
+def test_a_single_path_needs_no_tables():
+    # Every state has one edge, all over the same characters: strings are independent picks.
+    lang = pfuzz.compile(r".{2000,}?")
+    strings = lang.sample(5, seed=2)
+    assert all(len(s) >= 2000 and "\n" not in s for s in strings)
+    tables = lang.counter._bulk
+    assert tables.single_path and not hasattr(tables, "n_pairs")
+    assert tables.string_bound(2010) == 0
+    for m in (0, 1999, 2000, 2031):
+        mantissa, exponent = tables.start_count(m)
+        exact = lang.count(m)  # 95^m from the exact tables, 0 below 2000
+        assert (mantissa > 0) == (exact > 0)
+        if exact:
+            assert exponent == exact.bit_length()
+            assert abs(Fraction(mantissa) * 2**exponent - exact) <= exact * Fraction(2) ** -52
 
 
 def test_tables_past_the_budget_raise_before_allocating(monkeypatch):

@@ -22,6 +22,10 @@ gets every pair of every level up to the longest length. Tables that would
 pass ``TABLE_BUDGET`` bytes raise ``ResourceLimitError`` before they are
 allocated. Pairs are numbered level by level, and each pair owns a run of
 *slots*: one per edge whose target still has strings, plus a padding slot.
+When every live state has one edge and all edges carry the same characters
+(``[a-z]{1,64}``, ``.{65535,}?``), no pair needs a table at all
+(``single_path``): a string of a length that has strings is that many
+independent uniform picks.
 
 Alias tables. Each pair's law over its slots is an alias table (Walker's
 method, built vectorised with Marsaglia's "Robin Hood" pairing), so choosing
@@ -99,10 +103,26 @@ class FloatTables:
         self.max_length = self.lengths[-1] if self.lengths else 0
         self.dfa = counter.dfa
         self._edges(counter)
+        self.single_path = len(self.src) > 0 and self._degree == 1 and self.label.max() == 0
+        if self.single_path:
+            self._one_path(counter)
+            return
         self._pairs(counter)
         self._counts()
         self._slots()
         self._level_kinds()
+
+    def _one_path(self, counter) -> None:
+        """Every live state has one edge, and all edges carry the same characters: a string of
+        length m is m independent uniform picks from them (when m has strings at all), so no
+        pair needs a table; every level is uniform."""
+        top, width = self.max_length, int(self.width[0])
+        self.dense, self.per_character, self.counter = True, False, counter
+        self.kind = np.full(top + 1, UNIFORM, dtype=np.int64)
+        self.level_label = np.zeros(top + 1, dtype=np.int64)
+        self.level_width = np.full(top + 1, width, dtype=np.int64)
+        self.uniform_below = np.ones(top + 1, dtype=bool)
+        self._path_counts: dict[int, tuple[float, int]] = {}
 
     # -- structure ----------------------------------------------------------------------
     def _edges(self, counter) -> None:
@@ -166,7 +186,7 @@ class FloatTables:
 
     def covers(self, lengths) -> bool:
         """Whether walks to every one of ``lengths`` can use these tables."""
-        if self.dense:
+        if self.dense:  # every pair of every level up to max_length (or a single path)
             return all(0 <= m <= self.max_length for m in lengths)
         return set(lengths) <= set(self.lengths)
 
@@ -377,19 +397,37 @@ class FloatTables:
         """The pair of the start state with ``length`` characters to go (-1 if not held)."""
         return self.pair(length, 0)
 
-    def has_strings(self, length: int) -> bool:
+    def start_count(self, length: int) -> tuple[float, int]:
+        """count(length) as (mantissa, exponent): mantissa · 2^exponent, mantissa in [1/2, 1)
+        (0 and a huge negative exponent when the length has no strings)."""
+        if self.single_path:
+            hit = self._path_counts.get(length)
+            if hit is None:
+                if not self.counter.has_strings(length):
+                    hit = (0.0, _NONE)
+                else:  # width^length, its leading 53 bits as the mantissa
+                    count = int(self.width[0]) ** length
+                    shift = max(count.bit_length() - 53, 0)
+                    mantissa, exponent = np.frexp(float(count >> shift))
+                    hit = (float(mantissa), int(exponent) + shift)
+                self._path_counts[length] = hit
+            return hit
         p = self.start(length)
-        return p >= 0 and bool(self.mantissa[p] > 0)
+        return (float(self.mantissa[p]), int(self.exponent[p])) if p >= 0 else (0.0, _NONE)
+
+    def has_strings(self, length: int) -> bool:
+        return self.start_count(length)[0] > 0
 
     def start_exponent(self, length: int) -> int:
         """The binary exponent of count(length): the count lies in [2^(e-1), 2^e)."""
-        return int(self.exponent[self.start(length)])
+        return self.start_count(length)[1]
 
     def relative_weights(self, lengths: list[int]) -> np.ndarray:
         """Count(length) up to one common factor, as floats (for proportional length choice)."""
-        pairs = np.array([self.start(m) for m in lengths])
-        exps = self.exponent[pairs]
-        return np.ldexp(self.mantissa[pairs], np.clip(exps - exps.max(), -1100, 0).astype(np.int32))
+        counts = [self.start_count(m) for m in lengths]
+        mantissas = np.array([c[0] for c in counts])
+        exps = np.array([c[1] for c in counts], dtype=np.int64)
+        return np.ldexp(mantissas, np.clip(exps - exps.max(), -1100, 0).astype(np.int32))
 
     def transition_bound(self, remaining: int) -> float:
         """Bound on |q̂/q - 1| for an entry at this remaining length (see the module docstring)."""

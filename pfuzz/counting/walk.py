@@ -88,7 +88,8 @@ class _Chunk:
         if lengths[0] == lengths[-1] and lengths.min() == top:
             self.sorted_lengths, self.position = lengths, self.ends
         else:
-            order = np.argsort(-lengths, kind="stable")
+            key = -lengths if top >= 2**15 else (-lengths).astype(np.int16)  # int16: radix sort
+            order = np.argsort(key, kind="stable")
             self.sorted_lengths, self.position = lengths[order], self.ends[order]
         here = None if t.uniform_below[top] else _start_slots(t, self.sorted_lengths)
         step = 0
@@ -157,9 +158,10 @@ class _Chunk:
 
 def _start_slots(t, lengths: np.ndarray) -> np.ndarray:
     """The base slot of the start pair of each sample's length."""
-    distinct, which = np.unique(lengths, return_inverse=True)
-    bases = np.array([t.base[t.start(m)] for m in distinct.tolist()], dtype=t.next_base.dtype)
-    return bases[which.reshape(-1)]
+    bases = np.zeros(int(lengths.max()) + 1, dtype=t.next_base.dtype)
+    for m in np.flatnonzero(np.bincount(lengths)).tolist():
+        bases[m] = t.base[t.start(m)]
+    return bases[lengths]
 
 
 def _one_label(t, top: int) -> bool:
