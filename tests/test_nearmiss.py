@@ -250,3 +250,16 @@ def test_lengths_are_equally_likely():
     draws = sample_rejects(lang.dfa, 3000, seed=4)
     observed = [sum(1 for r in draws if len(r.text) == n) for n in (2, 3, 4)]
     assert sum(observed) == 3000 and chisquare(observed).pvalue > 1e-3
+
+
+def test_large_automata_are_not_cut_and_keep_their_near_misses(monkeypatch):
+    # Past SIMULATION_STATES the quadratic simulation matrices are not built; the
+    # antichain cut only saves configurations, so the near-miss language is the same.
+    from pfuzz.nearmiss import neighbourhood
+    from pfuzz.nearmiss.neighbourhood import build
+
+    dfa = pfuzz.compile(r"[a-c]{2,4}(x[0-9])?").dfa
+    cut = build(dfa, 2, EDIT_KINDS, False)
+    monkeypatch.setattr(neighbourhood, "SIMULATION_STATES", 1)
+    monkeypatch.setattr(neighbourhood, "simulation", None)  # would fail if called
+    assert build(dfa, 2, EDIT_KINDS, False) == cut

@@ -42,7 +42,9 @@ down). The cut leaves the language unchanged (the configurations
 stand for the same future) and makes far fewer configurations: 5,980
 instead of more than 262,144 for the 968-state password field of
 ``profiles/password-policy.toml`` at distance 2. R_0 is never cut (it
-decides membership in L).
+decides membership in L). The simulation's matrices are quadratic in the
+states, so a DFA of more than ``SIMULATION_STATES`` states is not cut at all
+(same language, more configurations, still bounded by the state cap).
 
 Range edges. For every live transition q → t of the minimal DFA, its label
 (the union of the classes leading from q to t) is a set of code-point
@@ -73,6 +75,12 @@ from __future__ import annotations
 from pfuzz.base.charset import CharSet, partition
 from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA, explore, transitions
 from pfuzz.automata.minimise import minimise
+
+
+#: Automata of more states are not cut by simulation: its boolean matrices hold (n + 1)²
+#: cells, a few copies at once. Uncut sets keep the language (the cut only saves
+#: configurations), and the state cap still bounds the construction.
+SIMULATION_STATES = 6_000
 
 
 def simulation(*args, **options):
@@ -187,7 +195,10 @@ class _Neighbourhood:
         self.swap_memo: dict[tuple, int] = {}
 
     def _cuts(self, dfa: DFA, written: list[list[int]], edges: bool) -> list[_Cut]:
-        """The cut of each level e = 1..d: by the simulation with d − e edits left."""
+        """The cut of each level e = 1..d: by the simulation with d − e edits left (no cut
+        past ``SIMULATION_STATES``, whose n × n matrices would take quadratic memory)."""
+        if dfa.n_states > SIMULATION_STATES:
+            return [_Cut([0] * dfa.n_states)] * self.d
         grades = [simulation(dfa)]  # no edit left: language inclusion
         moves = [w for w in written if any(w)]
         for _ in range(1, self.d if edges else 1):
