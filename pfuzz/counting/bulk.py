@@ -313,7 +313,8 @@ class FloatTables:
         self.slot_edge = np.zeros(self.n_slots, dtype=np.int32)
         self.slot_edge[slot] = edge
         if chars is not None:
-            self.slot_char = np.zeros(self.n_slots, dtype=np.uint32)
+            narrow = self.dfa.alphabet.max < 256
+            self.slot_char = np.zeros(self.n_slots, dtype=np.uint8 if narrow else np.uint32)
             self.slot_char[slot] = chars
         self.next_base = np.zeros(self.n_slots, dtype=index)
         self.next_base[slot] = self.base[nxt]

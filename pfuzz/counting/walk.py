@@ -158,7 +158,7 @@ class _Chunk:
 
 def _start_slots(t, lengths: np.ndarray) -> np.ndarray:
     """The base slot of the start pair of each sample's length."""
-    bases = np.zeros(int(lengths.max()) + 1, dtype=t.next_base.dtype)
+    bases = np.zeros(int(lengths.max()) + 1, dtype=np.intp)  # intp: takes need no conversion
     for m in np.flatnonzero(np.bincount(lengths)).tolist():
         bases[m] = t.base[t.start(m)]
     return bases[lengths]
