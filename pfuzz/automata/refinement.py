@@ -269,7 +269,7 @@ def _quotient(dfa: DFA, succ: np.ndarray, block: np.ndarray) -> DFA:
     accepting_blocks = np.zeros(len(labels), dtype=bool)
     accepting_blocks[number[block[sorted(dfa.accepting)]]] = True
     accepting = frozenset(np.flatnonzero(accepting_blocks[seen]).tolist())
-    final = tuple(map(tuple, rows[:, keep].tolist()))
+    final = tuple(zip(*rows[:, keep].T.tolist()))  # column lists zipped: faster than rows
     return DFA(dfa.alphabet, tuple(classes), final, accepting)
 
 
