@@ -196,3 +196,17 @@ def test_exact_tables_past_the_budget_raise_before_building(monkeypatch):
     assert len(c._levels) == 1
     strings = c.sample(5, seed=1)  # auto: the bulk path instead
     assert all(1 <= len(s) <= 400 for s in strings)
+
+
+def test_counts_past_the_level_budget_go_forward_and_ranks_refuse(monkeypatch):
+    from pfuzz.counting import tables
+    from pfuzz.errors import ResourceLimitError
+
+    monkeypatch.setattr(tables, "LEVELS_BUDGET", 1 << 20)
+    c = counter(r"[a-z]{1,900}")
+    assert c.counts(0, 900) == {n: 26**n if n else 0 for n in range(901)}  # common practice
+    assert len(c._levels) < 900  # the forward pass kept one level past the budget
+    with pytest.raises(ResourceLimitError, match="method='bulk'"):
+        c.rank("a" * 900)
+    small = counter(r"[a-z]{1,900}")
+    assert [small.count(n) for n in (1, 2, 450)] == [26, 26**2, 26**450]

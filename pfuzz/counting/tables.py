@@ -43,7 +43,7 @@ independently of the Python version).
 from __future__ import annotations
 
 import bisect
-from itertools import islice
+from itertools import accumulate, islice
 from typing import Iterator
 
 from pfuzz.automata import algebra
@@ -51,10 +51,14 @@ from pfuzz.automata.dfa import DFA, transitions
 from pfuzz.base.constants import UNBOUNDED_SPAN
 from pfuzz.counting.levels import (POWER_STATES, first_level, forward_sets, next_level,
                                    nonempty_lengths, power_count)
-from pfuzz.errors import ArgumentError, NotInLanguageError, RankOutOfRangeError
+from pfuzz.errors import ArgumentError, NotInLanguageError, RankOutOfRangeError, ResourceLimitError
 
 #: Counting a length this far beyond the levels built uses matrix powering (small automata).
 POWER_GAP = 1024
+#: Exact levels past this many bytes are not built: ranking, enumeration and exact sampling
+#: refuse with ResourceLimitError. Counting alone builds levels up to a sixteenth of it and
+#: beyond goes forward, keeping one level.
+LEVELS_BUDGET = 1 << 30
 
 
 class Counter:
@@ -75,6 +79,8 @@ class Counter:
         self._into: list | None = None
         self._levels: list = [first_level(dfa.accepting, dfa.n_states)]
         self._nonempty: list[bool] = []
+        self._level_bytes: list[int] = []  # [r]: bytes of the exact levels 0..r, at most
+        self._forward: tuple = (0, {0: 1}, [])  # (next length, its level, counts so far)
         self._bulk = None
 
     # -- tables ----------------------------------------------------------------------
@@ -82,6 +88,14 @@ class Counter:
         """``T[length]``: per state, the strings of that length leading to acceptance
         (a list, or a sparse ``Level``; both give 0 for a state without strings)."""
         levels, edges = self._levels, self._edges
+        if len(levels) <= length:
+            needed = self._levels_bytes(length)
+            if needed > LEVELS_BUDGET:
+                raise ResourceLimitError(
+                    f"exact count tables up to length {length:,} would take about "
+                    f"{needed / 2**20:,.0f} MB (limit {LEVELS_BUDGET / 2**20:,.0f} MB); ranking, "
+                    "enumeration and exact sampling need them: ask for shorter strings, or "
+                    "sample with method='bulk'")
         while len(levels) <= length:
             levels.append(next_level(levels[-1], edges, self._incoming()))
         return levels[length]
@@ -101,9 +115,28 @@ class Counter:
             raise ArgumentError(f"length must be >= 0, got {length}")
         if self.empty or (self.finite and length > self.max_length):
             return 0
+        if length < len(self._levels):
+            return self._levels[length][0]
         if len(self._edges) <= POWER_STATES and length >= len(self._levels) + POWER_GAP:
             return power_count(self._edges, self.dfa.accepting, length)
-        return self._table(length)[0]
+        if self._levels_bytes(length) <= LEVELS_BUDGET // 16:
+            return self._table(length)[0]
+        return self._forward_count(length)
+
+    def _forward_count(self, length: int) -> int:
+        """count(length) by the forward recurrence: per state, the strings of each length
+        that lead there from the start; one level is kept (and the counts met on the way)."""
+        at, level, counts = self._forward
+        edges, final = self._edges, self.dfa.accepting
+        while at <= length:
+            counts.append(sum(v for s, v in level.items() if s in final))
+            nxt: dict[int, int] = {}
+            for s, v in level.items():
+                for t, w in edges[s]:
+                    nxt[t] = nxt.get(t, 0) + w * v
+            at, level = at + 1, nxt
+        self._forward = (at, level, counts)
+        return counts[length]
 
     def exact_table_bytes(self, length: int) -> int:
         """An upper bound of the memory the exact levels up to ``length`` would take beyond
@@ -112,11 +145,22 @@ class Counter:
         built = len(self._levels)
         if length < built or self.empty:
             return 0
-        sources = [[s for s, _ in into] for into in self._incoming()]
-        sizes = forward_sets(sources, length, float("inf"), start=self.dfa.accepting, keep=False)
-        widest = max((sum(w for _, w in out) for out in self._edges), default=1)
-        bits = max(widest, 2).bit_length()
-        return sum(size * (32 + bits * r // 8) for r, size in enumerate(sizes) if r >= built)
+        return self._levels_bytes(length) - self._levels_bytes(built - 1)
+
+    def _levels_bytes(self, length: int) -> int:
+        """The bound of ``exact_table_bytes`` for all the levels 0..length."""
+        if self.empty:
+            return 0
+        total = self._level_bytes
+        if len(total) <= length:
+            sources = [[s for s, _ in into] for into in self._incoming()]
+            high = max(length, 2 * len(total))
+            states = forward_sets(sources, high, float("inf"), start=self.dfa.accepting,
+                                  keep=False)
+            widest = max((sum(w for _, w in out) for out in self._edges), default=1)
+            bits = max(widest, 2).bit_length()
+            total[:] = list(accumulate(size * (32 + bits * r // 8) for r, size in enumerate(states)))
+        return total[length]
 
     def has_strings(self, length: int) -> bool:
         """Whether some string of exactly ``length`` characters is accepted (no counts)."""
