@@ -69,7 +69,9 @@ class _Corrector:
                     self.pred[c][t].append(q)
                     any_pred[t].add(q)
         self.pred_any = [sorted(ps) for ps in any_pred]
-        self.pred_bits = [[sum(1 << p for p in ps) for ps in column] for column in self.pred]
+        # pred_bits[c][t]: the predecessors of t under c as a bitset, made when first asked
+        # (n bits each: all of them at once would take memory quadratic in the states)
+        self.pred_bits: list[dict[int, int]] = [{} for _ in range(k)]
         self.final_bits = sum(1 << f for f in self.final)
         self._before: list[dict[int, int]] = [{} for _ in range(k)]
         self._remembered = 0
@@ -197,10 +199,14 @@ class _Corrector:
         suffixes of many texts lead to the same sets, up to ``MEMO_BITS`` bits in all)."""
         hit = self._before[c].get(states)
         if hit is None:
-            hit, rest, into = 0, states, self.pred_bits[c]
+            hit, rest, into, column = 0, states, self.pred_bits[c], self.pred[c]
             while rest:
                 low = rest & -rest
-                hit |= into[low.bit_length() - 1]
+                t = low.bit_length() - 1
+                bits = into.get(t)
+                if bits is None:
+                    bits = into[t] = sum(1 << p for p in column[t])
+                hit |= bits
                 rest ^= low
             self._remembered += states.bit_length() + hit.bit_length() + 512
             if self._remembered > MEMO_BITS:
