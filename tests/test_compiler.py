@@ -1,4 +1,4 @@
-"""The compiler on hand-built trees: assertions, lookaheads, classes, limits."""
+"""The compiler on hand-built trees: assertions, lookarounds, captures, order of trying, classes, limits."""
 
 from __future__ import annotations
 
@@ -11,7 +11,9 @@ from pfuzz.base.charset import ALL, ALPHABETS, CharSet
 from pfuzz.automata.construction.compiler import compile_dfa, compile_tree
 from pfuzz.automata.dfa import DEFAULT_STATE_CAP
 from pfuzz.errors import PatternError, StateLimitError
-from pfuzz.syntax.tree import Alternation, Anchor, Chars, Lookahead, Repeat, Sequence
+from pfuzz.automata.construction.simplify import simplify
+from pfuzz.syntax.tree import (Alternation, Anchor, Atomic, Backreference, Boundary, Chars, Conditional, Group,
+                               Lookahead, Lookbehind, Repeat, Sequence)
 
 PRINTABLE = ALPHABETS["printable"]
 NO_NEWLINE = CharSet.single("\n").complement()
@@ -201,10 +203,8 @@ def test_state_cap_reaches_the_caller():
         lang(r"(a|b)*a(a|b){12}", "[ab]", state_cap=2000)
 
 
-@pytest.mark.parametrize("pattern, position", [
-    (r"a(?<=b)", 1), (r"(?=a(?<!b))", 4), (r"(a)\1", 3), (r"\bx", 0), ("(a", 0),
-])
-def test_unsupported_constructs_raise_pattern_errors_with_positions(pattern, position):
+@pytest.mark.parametrize("pattern, position", [(r"(a*)\1", 4), (r"(?=(a|b+))\1", 10), ("(a", 0)])
+def test_refused_patterns_raise_pattern_errors_with_positions(pattern, position):
     with pytest.raises(PatternError) as caught:
         lang(pattern)
     assert caught.value.position == position
@@ -224,3 +224,79 @@ def test_an_unknown_mode_is_an_argument_error():
     from pfuzz.errors import ArgumentError
     with pytest.raises(ArgumentError, match="unknown match mode"):
         compile_dfa("a", ALPHABETS["ascii"], mode="prefix")
+
+
+# -- the constructs that depend on what matched and how (trees by hand, languages by hand) --
+
+def test_word_boundary_by_definition():
+    # \b holds where exactly one neighbour is a word character, \B elsewhere, and neither
+    # in the empty string (re's rule, sre AT_BOUNDARY); "a" is a word character, "-" is not.
+    word = Chars(CharSet.from_chars("a"))
+    any_char = Chars(CharSet.from_chars("a-"))
+    edge = compiled(seq(star(any_char), Boundary(False), star(any_char)), "a-")
+    assert accepted(edge, "a-", 3) == {w for w in strings_upto("a-", 3) if "a" in w}
+    inside = compiled(seq(Boundary(True), star(any_char)), "a-")
+    assert accepted(inside, "a-", 2) == {"-", "--", "-a"}
+    assert accepted(compiled(seq(word, Boundary(False)), "a-"), "a-", 2) == {"a"}
+
+
+def test_lookbehind_reads_the_prefix():
+    a, b = cls("a"), cls("b")
+    after_a = compiled(seq(star(Alternation((a, b))), Lookbehind(a, False), b), "ab")
+    assert accepted(after_a, "ab", 4) == {w for w in strings_upto("ab", 4) if w.endswith("ab")}
+    not_after_a = compiled(seq(star(Alternation((a, b))), Lookbehind(a, True), b), "ab")
+    assert accepted(not_after_a, "ab", 3) == {"b", "bb", "abb", "bbb"}
+
+
+def test_lookbehind_with_anchor_and_lookahead_inside():
+    a, b = cls("a"), cls("b")
+    # (?<=^a)b: the a must stand at the start; (?<=a(?=b)) also looks past the position.
+    assert accepted(compiled(seq(a, Lookbehind(seq(Anchor("text_start"), a), False), b), "ab"), "ab", 3) == {"ab"}
+    ahead = seq(a, Lookbehind(seq(a, Lookahead(b, False)), False), star(Alternation((a, b))))
+    assert accepted(compiled(ahead, "ab"), "ab", 3) == {"ab", "aba", "abb"}
+
+
+def test_backreference_repeats_the_capture():
+    choice = Group(Alternation((cls("a"), seq(cls("a"), cls("b")))), 1)
+    twice = compiled(seq(choice, Backreference(1)), "ab")
+    assert accepted(twice, "ab", 5) == {"aa", "abab"}
+
+
+def test_backreference_sees_the_last_copy_of_a_repeated_group():
+    # (?:(a)|b)*\1: the reference reads the last a the loop captured, and fails if none.
+    loop = star(Alternation((Group(cls("a"), 1), cls("b"))))
+    found = accepted(compiled(seq(loop, Backreference(1)), "ab"), "ab", 4)
+    assert found == {w for w in strings_upto("ab", 4) if w.endswith("a") and "a" in w[:-1]}
+
+
+def test_conditional_follows_whether_the_group_took_part():
+    tree = seq(Repeat(Group(cls("a"), 1), 0, 1), Conditional(1, cls("b"), cls("c")))
+    assert accepted(compiled(tree, "abc"), "abc", 3) == {"ab", "c"}
+
+
+def test_atomic_group_keeps_its_first_way():
+    a, b, c = cls("a"), cls("b"), cls("c")
+    # (?>a|ab)c: the atomic group commits to "a" when it can, so "abc" is refused.
+    first = compiled(seq(Atomic(Alternation((a, seq(a, b)))), c), "abc")
+    assert accepted(first, "abc", 4) == {"ac"}
+    # (?>a*)a: the greedy loop leaves no a behind.
+    assert compiled(seq(Atomic(star(a)), a), "a").is_empty()
+
+
+def test_possessive_repeat_never_gives_one_back():
+    a, b = cls("a"), cls("b")
+    possessive = compiled(seq(Repeat(Alternation((a, seq(a, b))), 0, None, possessive=True), cls("c")), "abc")
+    assert accepted(possessive, "abc", 4) == {"c", "ac", "aac", "aaac"}
+
+
+def test_runs_and_nested_optionals_fold_into_one_repeat():
+    a = cls("a")
+    assert simplify(Repeat(Repeat(a, 0, 1), 2500, 2500)) == Repeat(a, 0, 2500)
+    assert simplify(Sequence((Repeat(a, 0, 1),) * 5000)) == Repeat(a, 0, 5000)
+    assert simplify(Repeat(Repeat(a, 2, 3), 0, 4)) == Repeat(Repeat(a, 2, 3), 0, 4)  # {0,2,3,4,...}: a gap
+    assert compiled(Repeat(Repeat(a, 0, 1), 2500, 2500), "a") == compiled(Repeat(a, 0, 2500), "a")
+
+
+def test_captured_characters_are_bounded():
+    with pytest.raises(StateLimitError, match="different characters"):
+        compile_dfa(r"(.)\1", ALPHABETS["bmp"])

@@ -1,4 +1,4 @@
-"""The determiniser: interned sets, pruning, configurations grouped by obligation set."""
+"""The determiniser: interned sets, pruning, configurations grouped by obligation set, the work budget."""
 
 from __future__ import annotations
 
@@ -9,7 +9,9 @@ import pytest
 from helpers import strings_upto
 from pfuzz.base.charset import CharSet
 from pfuzz.automata.construction.compiler import compile_dfa
-from pfuzz.automata.construction.determinise import NO_OBLIGATIONS, Determiniser, Interned, Obligations
+from pfuzz.automata.construction.determinise import Determiniser
+from pfuzz.automata.construction.obligations import NO_OBLIGATIONS, Interned, Obligations
+from pfuzz.errors import StateLimitError
 
 LETTERS = CharSet.range("a", "c")
 
@@ -46,11 +48,11 @@ def recorded(monkeypatch):
 def test_threads_after_a_start_lookahead_move_as_one_group(recorded):
     pattern = r"(?=.*[0-9])(?=.*[a-z])[a-z0-9]{4,8}"
     dfa = compile_dfa(pattern, CharSet.range("0", "z"))
-    assert all(len(config) <= 2 for _, config in recorded)
+    assert all(len(config) <= 3 for _, config in recorded)  # (ending, look-back, one group)
     # The same state sets recur under many obligation sets; their moves are memoised.
     main = max({runner for runner, _ in recorded}, key=lambda r: len(r.state_sets))
     steps = sum(1 for runner, _ in recorded if runner is main)
-    assert sum(map(len, main.moved)) < steps / 2
+    assert sum(len(moves.moved) for moves in main.tables.values()) < steps / 2
     rx = re.compile(pattern)  # reference: re.fullmatch
     for s in ["ab12", "abcd", "1234", "a1", "zz99zz99", "zz99zz99z"]:
         assert dfa.accepts(s) == bool(rx.fullmatch(s)), s
@@ -58,9 +60,9 @@ def test_threads_after_a_start_lookahead_move_as_one_group(recorded):
 
 def test_threads_at_the_final_state_become_the_accepting_flag(recorded):
     dfa = compile_dfa(r"a(b|c$)?", LETTERS)
-    assert any(config[0] and len(config) > 1 for _, config in recorded)  # "a": end or go on
+    assert any(config[0] and len(config) > 2 for _, config in recorded)  # "a": end or go on
     for runner, config in recorded:
-        assert all(runner.nfa.final not in runner.state_sets[sid] for _, sid in config[1:])
+        assert all(runner.nfa.final not in runner.state_sets[sid] for _, sid in config[2:])
     rx = re.compile(r"a(b|c$)?")  # reference: re.fullmatch
     for s in strings_upto("abc", 3):
         assert dfa.accepts(s) == bool(rx.fullmatch(s)), s
@@ -68,7 +70,28 @@ def test_threads_at_the_final_state_become_the_accepting_flag(recorded):
 
 def test_plain_threads_take_the_subset_step(recorded):
     compile_dfa(r"(a|b)*a(a|b){3}", CharSet.range("a", "b"))
-    assert all(len(config) == 2 and config[1][0] == NO_OBLIGATIONS
-               for _, config in recorded if len(config) > 1)
+    assert all(len(config) == 3 and config[2][0] == NO_OBLIGATIONS
+               for _, config in recorded if len(config) > 2)
     runner = recorded[0][0]
-    assert not any(runner.moved)  # no memo: each plain state set is one configuration
+    assert not any(moves.moved for moves in runner.tables.values())  # no memo: plain sets step directly
+
+
+def test_a_memoryless_look_back_is_not_stored_in_configurations(recorded):
+    compile_dfa(r"(?m)^a$\n^b", CharSet.from_chars("ab\n"))
+    assert all(config[1] == 0 for _, config in recorded)
+
+
+def test_a_lookbehind_tracker_is_carried_in_configurations(recorded):
+    dfa = compile_dfa(r"[ab]*(?<!a)", LETTERS)
+    assert len({config[1] for _, config in recorded}) > 1
+    rx = re.compile(r"[ab]*(?<!a)")  # reference: re.fullmatch
+    for s in strings_upto("abc", 4):
+        assert dfa.accepts(s) == bool(rx.fullmatch(s)), s
+
+
+def test_the_work_budget_stops_nested_optional_repeats():
+    # (?:a?b?){n}: every state's ε-closure reaches all later copies, so the subset construction
+    # costs O(n²) steps for n + 1 states; the budget (16 steps per state of the cap) ends it.
+    with pytest.raises(StateLimitError, match="work budget"):
+        compile_dfa(r"(?:a?b?){150}", CharSet.from_chars("ab"), cap=2_000)
+    assert compile_dfa(r"(?:a?b?){40}", CharSet.from_chars("ab"), cap=2_000).n_states == 81

@@ -8,8 +8,10 @@ Then one method per grammar rule builds the tree of ``pfuzz.syntax.tree``::
     alternation := sequence ('|' sequence)*
     sequence    := (item quantifier*)*        -- verbose white space, # and (?#) comments skipped
     item        := escape | class | group | '.' | '^' | '$' | literal
-    quantifier  := ('*' | '+' | '?' | '{' m? (',' n?)? '}') '?'?
-    group       := '(' ('?:' | '?P<name>' | '?=' | '?!' | '?flags-flags:')? alternation ')'
+    quantifier  := ('*' | '+' | '?' | '{' m? (',' n?)? '}') ('?' | '+')?
+    group       := '(' ('?:' | '?P<name>' | '?=' | '?!' | '?<=' | '?<!' | '?>' | '?flags-flags:')?
+                   alternation ')'
+                 | '(?P=' name ')' | '(?(' name-or-number ')' sequence ('|' sequence)? ')'
 
 Escapes are read by ``pfuzz.syntax.escapes``, classes by ``pfuzz.syntax.classes``. The rules
 follow ``re/_parser.py`` (Python 3.11) wherever the language depends on them:
@@ -21,12 +23,14 @@ class as a whole). ``re`` also factors common prefixes out of alternations
 before merging; we do not, which matters only under IGNORECASE and changes no
 language over the cased code points (checked in tests/test_casefold.py).
 
-Groups dissolve, lazy quantifiers become plain repeats, every flag but
+Groups that nothing refers to dissolve, lazy quantifiers keep their mark only where
+``re``'s order of trying can matter (see ``pfuzz.syntax.tree``), every flag but
 IGNORECASE is applied here; atoms keep their source text and flags for
-``pfuzz.syntax.casefold``. Constructs that are not regular or not supported (back
-references, conditionals, possessive quantifiers, atomic groups, lookbehind,
-``\\b``/``\\B``, LOCALE, TEMPLATE, bytes) raise ``PatternError`` at the index of
-their first character. Cost: linear in the pattern length (tens of
+``pfuzz.syntax.casefold``. What pfuzz refuses raises ``PatternError`` at the index of
+its first character: a backreference to a group whose width is unbounded (such as
+``(a+)\\1`` or ``(.*)\\1``: whether such a pattern is regular cannot be decided in
+general, so pfuzz compiles backreferences only to groups with finitely many
+strings), the LOCALE flag, and bytes patterns. Cost: linear in the pattern length (tens of
 microseconds for a validator pattern) plus ``re``'s cached compile; each of
 ``\\d``, ``\\w`` and ``\\s`` pays about 40 ms the first time a process uses
 it, for its table in ``pfuzz.syntax.categories``.
@@ -42,12 +46,14 @@ from pfuzz.base.charset import ALL, CharSet
 from pfuzz.syntax.classes import escape_chars, read_class
 from pfuzz.errors import PatternError
 from pfuzz.syntax.escapes import read_escape
-from pfuzz.syntax.tree import Alternation, Anchor, Chars, Lookahead, Node, Repeat, Sequence
+from pfuzz.syntax.tree import (Alternation, Anchor, Atomic, Backreference, Boundary, Chars, Conditional,
+                               Group, Lookahead, Lookbehind, Node, Repeat, Sequence, children, walk, width)
 
 # re's flag values as plain ints (RegexFlag arithmetic is slow in a hot loop).
 IGNORECASE, MULTILINE, DOTALL, VERBOSE = (int(flag) for flag in (re.I, re.M, re.S, re.X))
 ASCII, UNICODE, LOCALE, TEMPLATE = (int(flag) for flag in (re.A, re.U, re.L, re.T))
-SUPPORTED_FLAGS = IGNORECASE | MULTILINE | DOTALL | VERBOSE | ASCII | UNICODE
+# TEMPLATE changes no match: re refuses it only with repeats, at compile time.
+SUPPORTED_FLAGS = IGNORECASE | MULTILINE | DOTALL | VERBOSE | ASCII | UNICODE | TEMPLATE
 ATOM_FLAGS = IGNORECASE | ASCII | DOTALL
 TYPE_FLAGS = ASCII | UNICODE | LOCALE
 INLINE_FLAGS = {
@@ -56,7 +62,8 @@ INLINE_FLAGS = {
 }
 VERBOSE_SPACE = frozenset(" \t\n\r\v\f")
 DIGITS = frozenset("0123456789")
-NOT_REGULAR = "pfuzz supports the regular subset of re"
+UNBOUNDED_REFERENCE = ("refers to a group that can match strings of any length; pfuzz compiles "
+                       "backreferences only to groups with finitely many strings")
 ANY_BUT_NEWLINE = ALL - CharSet.single("\n")
 
 
@@ -67,7 +74,8 @@ def parse(pattern: str, flags: int = 0) -> Node:
     if rejection is not None and rejection.position is not None:
         raise rejection
     try:
-        tree = _Parser(pattern).pattern(int(flags))
+        parser = _Parser(pattern)
+        tree = _finish(parser.pattern(int(flags)), parser.referenced, parser.ordered)
     except RecursionError:
         raise PatternError("pattern nests too deeply", pattern, None) from None
     # Where re rejected without a position (variable-width lookbehind, ...), a
@@ -132,6 +140,11 @@ class _Parser:
     def __init__(self, pattern: str):
         self.text = pattern
         self.pos = 0
+        self.groups = 0  # capturing groups opened so far
+        self.names: dict[str, int] = {}
+        self.widths: dict[int, tuple[int, int | None]] = {}  # of the groups closed so far
+        self.referenced: set[int] = set()  # groups a backreference or conditional names
+        self.ordered = False  # an atomic group or possessive quantifier was seen
 
     # -- helpers ---------------------------------------------------------------
     def peek(self, offset: int = 0) -> str:
@@ -140,8 +153,6 @@ class _Parser:
     def error(self, message: str, position: int | None) -> PatternError:
         return PatternError(message, self.text, position)
 
-    def refuse(self, construct: str, position: int, reason: str = "is not supported") -> PatternError:
-        return self.error(f"{construct} {reason}: {NOT_REGULAR}", position)
 
     def skip_ignored(self, flags: int) -> None:
         """Skip ``(?#...)`` comments and, in verbose mode, white space and ``#`` comments."""
@@ -187,8 +198,6 @@ class _Parser:
             spec = self.flag_spec(start + 2) if self.text.startswith("(?", start) else None
             if spec is None or spec.terminator != ")":
                 return flags
-            if spec.add & TEMPLATE:
-                raise self.error("the TEMPLATE flag (?t) is not supported", start)
             flags |= spec.add
             self.pos = spec.end
 
@@ -226,12 +235,10 @@ class _Parser:
     def quantified(self, item: _Item) -> _Item:
         start = self.pos
         minimum, maximum = self.bounds()
-        if self.peek() == "?":
-            self.pos += 1  # lazy: the same language
-        elif self.peek() == "+":
-            construct = self.text[start : self.pos + 1]
-            raise self.refuse(f"possessive quantifier {construct}", start)
-        return _Item(Repeat(item.node, minimum, maximum, start))
+        mode = self.peek() if self.peek() in ("?", "+") else ""
+        self.pos += len(mode)
+        self.ordered = self.ordered or mode == "+"
+        return _Item(Repeat(item.node, minimum, maximum, start, lazy=mode == "?", possessive=mode == "+"))
 
     def bounds(self) -> tuple[int, int | None]:
         simple = {"*": (0, None), "+": (1, None), "?": (0, 1)}.get(self.peek())
@@ -301,9 +308,10 @@ class _Parser:
             self.pos = escape.end
             return _Item(Anchor("text_start" if escape.value == "A" else "text_end", escape.start))
         if escape.kind == "boundary":
-            raise self.refuse(f"word boundary {source}", escape.start)
+            self.pos = escape.end
+            return _Item(Boundary(escape.value == "B", bool(flags & ASCII), escape.start))
         if escape.kind == "backreference":
-            raise self.refuse(f"backreference {source}", escape.start, "is not regular")
+            return self.reference(escape.value, escape.start, escape.end, flags)
         self.pos = escape.end
         chars = escape_chars(escape, ascii_only=bool(flags & ASCII))
         return _Item(Chars(chars, escape.start, source, flags & ATOM_FLAGS), 1, True)
@@ -320,32 +328,71 @@ class _Parser:
         start = self.pos
         if not self.text.startswith("(?", start):
             self.pos += 1
-            return _Item(_build(self.group_body(start, flags), start))
+            return self.capturing(start, None, flags)
         rest = self.text[start + 2 : start + 4]
         if rest.startswith("P<"):
-            self.pos = self.text.index(">", start) + 1
-            return _Item(_build(self.group_body(start, flags), start))
+            close = self.text.index(">", start)
+            name = self.text[start + 4 : close]
+            self.pos = close + 1
+            return self.capturing(start, name, flags)
+        if rest.startswith("P="):
+            close = self.text.index(")", start)
+            self.pos = close + 1
+            return self.reference(self.names[self.text[start + 4 : close]], start, close + 1, flags)
         if rest.startswith(":"):
             self.pos = start + 3
             return _dissolved(self.group_body(start, flags), start)
-        if rest[:1] in ("=", "!"):
-            self.pos = start + 3
-            body = _build(self.group_body(start, flags), start + 3)
-            return _Item(Lookahead(body, rest[0] == "!", start))
-        self.refuse_extension(start, rest)
+        if rest[:1] in ("=", "!", ">") or rest in ("<=", "<!"):
+            return self.lookaround_or_atomic(start, rest, flags)
+        if rest.startswith("("):
+            return self.conditional(start, flags)
         return self.scoped_group(start, flags)
 
-    def refuse_extension(self, start: int, rest: str) -> None:
-        """Raise for the ``(?...`` forms that are not regular or not supported."""
-        if rest.startswith("P="):
-            construct = self.text[start : self.text.find(")", start) + 1]
-            raise self.refuse(f"backreference {construct}", start, "is not regular")
-        if rest in ("<=", "<!"):
-            raise self.refuse(f"lookbehind (?{rest}...)", start)
-        if rest.startswith("("):
-            raise self.refuse("conditional group (?(...)...)", start, "is not regular")
-        if rest.startswith(">"):
-            raise self.refuse("atomic group (?>...)", start)
+    def capturing(self, start: int, name: str | None, flags: int) -> _Item:
+        self.groups += 1
+        index = self.groups
+        if name is not None:
+            self.names[name] = index
+        body = _build(self.group_body(start, flags), start)
+        self.widths[index] = width(body, dict(self.widths))
+        return _Item(Group(body, index, start))
+
+    def reference(self, index: int, start: int, end: int, flags: int) -> _Item:
+        """A backreference to group ``index``, refused when that group's width is unbounded."""
+        if self.widths[index][1] is None:
+            raise self.error(f"backreference {self.text[start:end]} {UNBOUNDED_REFERENCE}", start)
+        self.pos = end
+        self.referenced.add(index)
+        return _Item(Backreference(index, flags & (IGNORECASE | ASCII), start))
+
+    def lookaround_or_atomic(self, start: int, rest: str, flags: int) -> _Item:
+        behind = rest.startswith("<")
+        self.pos = body_start = start + 3 + behind
+        body = _build(self.group_body(start, flags), body_start)
+        if rest[0] == ">":
+            self.ordered = True
+            return _Item(Atomic(body, start))
+        if behind:
+            return _Item(Lookbehind(body, rest[1] == "!", start))
+        return _Item(Lookahead(body, rest[0] == "!", start))
+
+    def conditional(self, start: int, flags: int) -> _Item:
+        """``(?(name)yes|no)``; re has checked the name (a group name or a number)."""
+        close = self.text.index(")", start + 3)
+        name = self.text[start + 3 : close]
+        index = self.names[name] if name in self.names else int(name)
+        self.referenced.add(index)
+        self.pos = close + 1
+        yes_start = self.pos
+        yes = _build(self.sequence(flags), yes_start)
+        no = Sequence((), self.pos)
+        if self.peek() == "|":
+            self.pos += 1
+            no = _build(self.sequence(flags), self.pos)
+        if self.peek() != ")":
+            raise self.error("missing ), unterminated subpattern", start)
+        self.pos += 1
+        return _Item(Conditional(index, yes, no, start))
 
     def scoped_group(self, start: int, flags: int) -> _Item:
         spec = self.flag_spec(start + 2)
@@ -416,6 +463,35 @@ def _merge_options(options: list[list[_Item]], start: int) -> Chars | None:
     chars = CharSet.union([atom.chars for atom in atoms])
     source = "|".join(atom.source for atom in atoms)
     return Chars(chars, start, source, atoms[0].flags)
+
+
+def _finish(tree: Node, referenced: set[int], ordered: bool) -> Node:
+    """Dissolve the groups nothing refers to; drop lazy marks where order cannot matter."""
+    if not any(isinstance(node, (Group, Repeat)) for node in walk(tree)):
+        return tree
+    return _rewrite(tree, referenced, ordered or bool(referenced))
+
+
+def _rewrite(node: Node, referenced: set[int], ordered: bool) -> Node:
+    parts = [_rewrite(child, referenced, ordered) for child in children(node)]
+    if isinstance(node, Group) and node.index not in referenced:
+        return parts[0]
+    if isinstance(node, Sequence):
+        return _build([_Item(part) for part in parts], node.position)
+    if isinstance(node, Alternation):
+        return Alternation(tuple(parts), node.position)
+    if isinstance(node, Repeat):
+        return Repeat(parts[0], node.min, node.max, node.position, node.lazy and ordered, node.possessive)
+    if isinstance(node, Conditional):
+        return Conditional(node.index, parts[0], parts[1], node.position)
+    if parts:
+        return type(node)(parts[0], *[getattr(node, field) for field in _FIELDS[type(node)]])
+    return node
+
+
+#: The fields after ``item`` of the nodes with one child, in constructor order.
+_FIELDS = {Lookahead: ("negative", "position"), Lookbehind: ("negative", "position"),
+           Group: ("index", "position"), Atomic: ("position",)}
 
 
 def _build(items: list[_Item], position: int) -> Node:

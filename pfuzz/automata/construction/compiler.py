@@ -1,82 +1,60 @@
 """The pattern compiler: pattern text to the minimal DFA of what ``re.fullmatch`` accepts.
 
-Pipeline: ``pfuzz.syntax.parser.parse`` gives a tree; every ``Chars`` node is resolved
-to a ``CharSet`` inside the alphabet (``pfuzz.syntax.casefold.resolve``); all those
-sets (and ``'\\n'``) are partitioned into disjoint classes
-(``pfuzz.base.charset.partition``); Thompson's construction (``pfuzz.automata.nfa``) gives an
-ε-NFA over class indexes; the subset construction of Rabin & Scott (1959), run
-by ``pfuzz.automata.dfa.explore`` over the configurations below, gives a DFA, and
+Pipeline: ``pfuzz.syntax.parser.parse`` gives a tree; ``simplify`` merges runs of
+repeats; every ``Chars`` node is resolved to a ``CharSet`` inside the alphabet
+(``pfuzz.syntax.casefold.resolve``); all those sets (and ``'\\n'``, and the word
+characters when ``\\b`` or ``\\B`` occur) are partitioned into disjoint classes
+(``pfuzz.base.charset.partition``), refined so that the characters a backreference
+compares fall in classes of their own; Thompson's construction
+(``pfuzz.automata.nfa``) gives an ε-NFA over class indexes, expanded with the
+registers of captured groups where needed (``registers``); the subset
+construction of Rabin & Scott (1959), run by ``pfuzz.automata.dfa.explore`` over
+threads that carry obligations (``determinise``), gives a DFA, and
 ``pfuzz.automata.minimise.minimise`` (partition refinement) the canonical minimal one.
 
-Assertions are exact, wherever they stand. A DFA configuration is a set of
-*threads*; a thread is an NFA state plus a set of *obligations* on the
-rest of the string, each a (constraint, state) pair of a small DFA that
-reads every later character and must accept at the end of the input (the
-determiniser, ``pfuzz.automata.construction.determinise``, groups threads by obligation set):
-
-- ``^`` / ``\\A`` and ``(?m)^`` look back one character. The context of a
-  position (start of text, just after ``'\\n'``, other) is fixed by the last
-  class read, so ε-closures are computed per (state, context) and their
-  assertion edges taken only where allowed; the context itself need not be
-  stored in the configuration.
-- ``\\Z`` (rest is empty), ``$`` (rest is "" or "\\n") and ``(?m)$`` (rest is ""
-  or starts with "\\n") become obligations on two-state DFAs.
-- ``(?=X)`` from a position requires the rest to lie in P(X), the strings with
-  a prefix that X matches *with assertions judged against the whole rest*
-  (so ``(?=a$)`` is {"a", "a\\n"}, not a·U*). P(X) is compiled recursively,
-  as the NFA of X whose final state loops on every class, starting from the
-  context of the position (one DFA per context used, so ``^`` inside a
-  lookahead is exact too). ``(?!X)`` uses the complement of P(X).
-
-An obligation whose state is universal is dropped and a dead one kills its
-thread; a thread is dropped when another thread at the same NFA state carries
-a subset of its obligations. Constraint DFAs are interned by value, so equal
-lookaheads share one. This gives exactly L(Y) ∩ P(X) for ``(?=X)Y`` at the
-start, and the password idiom ``^(?=.*\\d)(?=.{8,64}$).*$`` costs about the
+Every construction of ``re`` that keeps the language regular is exact, wherever it
+stands: anchors and ``\\b``/``\\B`` by the context of the position and obligations
+on the rest; lookaheads as obligations; lookbehinds by trackers over the prefix
+(``lookback``); conditionals and backreferences to groups of bounded width by
+registers; atomic groups and possessive quantifiers by ``re``'s order of trying
+(the Priority assertions of ``pfuzz.automata.nfa``). ``compilation`` is the judge
+that says what each assertion adds. This gives exactly L(Y) ∩ P(X) for ``(?=X)Y``
+at the start, and the password idiom ``^(?=.*\\d)(?=.{8,64}$).*$`` costs about the
 product of its lookaheads' automata, as the minimal DFA must.
 
 ``mode="match"`` / ``"search"`` compile what ``re.match`` / ``re.search``
 accept, as full matches of P(?s:.*) and (?s:.*)P(?s:.*) (see ``in_mode``).
 
 Cost: linear in the number of DFA configurations times the classes times the
-threads per configuration; bounded repeats are expanded with nested optionals
-(see ``pfuzz.automata.nfa``) so ``[a-z0-9]{1,256}`` has two threads per configuration.
-Measured in pure Python (``python -m pfuzz.benchmarks compile``): about 12 µs per
-state of the minimal DFA for ``(a|b)*a(a|b){16}`` (131,072 states in about
-1.6 s), about 20 µs per state for products of lookaheads (a four-lookahead
-password rule: 976 states in about 20 ms, of which 8 ms subset construction
-and 6 ms minimisation), and about 28 µs per state for the hostname rule
-under ``(?=.{1,253}$)`` (23,997 states in about 0.68 s, three quarters of
-it in minimisation: Moore's rounds run out on the 253-step length counter
-and Hopcroft's algorithm, in pure Python, takes over). Limits: every construction stops at ``cap`` states with
-``StateLimitError``, and the expanded NFA at ``NFA_STATES_PER_CAP × cap``
-states before it is built; no assertion is refused, lookaheads nested in
-lookaheads included.
+threads per configuration; bounded repeats are expanded with nested optionals so
+``[a-z0-9]{1,256}`` has two threads per configuration (figures on this machine:
+``python -m pfuzz.benchmarks compile``). Limits: every construction stops at
+``cap`` states with ``StateLimitError``, the expanded NFA at
+``NFA_STATES_PER_CAP × cap`` states before it is built, the ε-closure work at
+``CLOSURE_STEPS_PER_CAP × cap`` steps; a group a backreference reads may capture at
+most ``MAX_CAPTURED_CHARACTERS`` different characters (each needs its own state).
 """
 
 from __future__ import annotations
 
-from typing import Callable
+import functools
 
-from pfuzz.automata import dfa as automata
-from pfuzz.automata.minimise import minimise
-from pfuzz.automata.algebra import complement
+import _sre
+
+from pfuzz.automata.construction.compilation import Compilation, Facts
+from pfuzz.automata.construction.registers import Layout, Registers
+from pfuzz.automata.construction.simplify import simplify
+from pfuzz.automata.dfa import DEFAULT_STATE_CAP, DFA
 from pfuzz.base.charset import ALL, CharSet, partition
-from pfuzz.automata.dfa import DEAD, DEFAULT_STATE_CAP, DFA
 from pfuzz.base.constants import CALL_MODES
-from pfuzz.errors import ArgumentError
-from pfuzz.automata.construction.determinise import (BLOCKED, NEWLINE, NO_OBLIGATIONS, OTHER, START, Determiniser,
-                          Obligations)
-from pfuzz.automata.nfa import build
-from pfuzz.syntax.tree import Alternation, Anchor, Chars, Lookahead, Node, Repeat, Sequence
+from pfuzz.errors import ArgumentError, PatternError, StateLimitError
+from pfuzz.syntax.tree import (Backreference, Boundary, Chars, Conditional, Group, Node, Repeat, Sequence,
+                               walk, width)
 
-#: The NFA may have at most this many states per allowed DFA state.
-NFA_STATES_PER_CAP = 4
+#: Most characters the groups that backreferences read may capture, all together.
+MAX_CAPTURED_CHARACTERS = 4096
 
-Resolver = Callable[[Chars, CharSet], CharSet]
-
-
-#: How a pattern is applied to a string, as the methods of a compiled ``re`` pattern.
+IGNORECASE, ASCII = 2, 256  # re.IGNORECASE, re.ASCII
 
 
 def compile_dfa(pattern: str, alphabet: CharSet, flags: int = 0,
@@ -108,97 +86,111 @@ def in_mode(tree: Node, mode: str) -> Node:
 
 
 def compile_tree(tree: Node, alphabet: CharSet, cap: int = DEFAULT_STATE_CAP,
-                 resolve: Resolver | None = None) -> DFA:
+                 resolve=None) -> DFA:
     """The minimal DFA of a syntax tree under full-match semantics over ``alphabet``."""
     if resolve is None:
         from pfuzz.syntax.casefold import resolve
-    sets = {node: resolve(node, alphabet) & alphabet for node in _chars_nodes(tree)}
-    newline = CharSet.single("\n") & alphabet
-    classes = partition([*sets.values(), newline], alphabet)
-    return _Shared(classes, alphabet, cap, sets).compile(tree, START, any_suffix=False)
+    tree = simplify(tree)
+    sets = {node: resolve(node, alphabet) & alphabet for node in walk(tree) if isinstance(node, Chars)}
+    facts = _facts(tree)
+    words = _words(tree, alphabet)
+    extra = [CharSet.single("\n") & alphabet, *words.values()]
+    classes = partition([*sets.values(), *extra], alphabet)
+    backreferences = [n for n in walk(tree) if isinstance(n, Backreference)]
+    keys = {}
+    if backreferences:
+        classes = _refine(classes, backreferences, facts, sets, alphabet)
+        keys = {flags: tuple(_key(flags)(cls.min) for cls in classes)
+                for flags in {b.flags & (IGNORECASE | ASCII) for b in backreferences}}
+    adjacency = frozenset(c.index for group in facts.groups.values() for c in walk(group.item)
+                          if isinstance(c, Conditional) and c.index == group.index)
+    registers = Registers(Layout(tuple(sorted(facts.tracked)), facts.valued, adjacency), keys)
+    compilation = Compilation(classes, alphabet, cap, sets, facts, registers,
+                              {False: words.get(False, CharSet()), True: words.get(True, CharSet())})
+    lookback = compilation.lookback_for(tree)
+    return compilation.compile(tree, lookback, lookback.start, any_suffix=False)
 
 
-# -- tree walks -----------------------------------------------------------------------
-
-def _children(node: Node) -> tuple:
-    if isinstance(node, Sequence):
-        return node.items
-    if isinstance(node, Alternation):
-        return node.options
-    if isinstance(node, (Repeat, Lookahead)):
-        return (node.item,)
-    return ()
-
-
-def _walk(node: Node):
-    stack = [node]
-    while stack:
-        current = stack.pop()
-        yield current
-        stack.extend(_children(current))
+def _facts(tree: Node) -> Facts:
+    groups = {n.index: n for n in walk(tree) if isinstance(n, Group)}
+    widths: dict = {}
+    for index in sorted(groups):
+        widths[index] = width(groups[index].item, widths)
+    valued = frozenset(n.index for n in walk(tree) if isinstance(n, Backreference))
+    for index in valued:
+        if widths.get(index, (0, None))[1] is None:
+            raise PatternError(f"backreference \\{index} refers to a group that can match strings of any "
+                               "length; pfuzz compiles backreferences only to groups with finitely many strings")
+    return Facts(groups, widths, frozenset(groups), valued)
 
 
-def _chars_nodes(tree: Node) -> set[Chars]:
-    return {n for n in _walk(tree) if isinstance(n, Chars)}
+def _words(tree: Node, alphabet: CharSet) -> dict[bool, CharSet]:
+    """The word characters (by ASCII-ness) that the tree's \\b and \\B ask about."""
+    from pfuzz.syntax.categories import category
+
+    kinds = {n.ascii for n in walk(tree) if isinstance(n, Boundary)}
+    return {ascii_only: category("w", ascii_only) & alphabet for ascii_only in kinds}
 
 
-def _context_map(tree: Node) -> tuple[int, int, int]:
-    """Contexts that the tree's start anchors can tell apart (others collapse to OTHER)."""
-    kinds = {n.kind for n in _walk(tree) if isinstance(n, Anchor)}
-    if "line_start" in kinds:
-        return (START, NEWLINE, OTHER)
-    if "text_start" in kinds:
-        return (START, OTHER, OTHER)
-    return (OTHER, OTHER, OTHER)
+def _key(flags: int):
+    """How a backreference with ``flags`` compares a character (sre's GROUPREF ops)."""
+    if not flags & IGNORECASE:
+        return lambda point: point
+    return _sre.ascii_tolower if flags & ASCII else _sre.unicode_tolower
 
 
-# -- shared state of one compilation: classes, constraint automata ---------------------
+def _refine(classes: list[CharSet], backreferences: list, facts: Facts, sets: dict,
+            alphabet: CharSet) -> list[CharSet]:
+    """Split the classes so that each class holds characters that every backreference
+    compares alike: captured characters then stand for themselves (or their case)."""
+    captured = CharSet()
+    for node in backreferences:
+        captured |= _captured(node.index, facts, sets)
+    if len(captured) > MAX_CAPTURED_CHARACTERS:
+        raise StateLimitError(
+            f"the groups that backreferences read can capture {len(captured):,} different characters "
+            f"over this alphabet, and telling them apart needs an automaton state for each; pfuzz "
+            f"stops at {MAX_CAPTURED_CHARACTERS:,} (use a smaller alphabet)")
+    functions = [_key(flags) for flags in sorted({b.flags & (IGNORECASE | ASCII) for b in backreferences})]
+    related = CharSet.from_chars(point for function in functions
+                                 for point in _preimage(function, captured, alphabet))
+    refined = []
+    for cls in classes:
+        inside = cls & related
+        rest = cls - inside
+        if rest:
+            refined.append(rest)
+        by_key: dict[tuple, list[int]] = {}
+        for char in inside.chars():
+            by_key.setdefault(tuple(f(ord(char)) for f in functions), []).append(ord(char))
+        refined.extend(CharSet.from_chars(points) for points in by_key.values())
+    return sorted(refined, key=lambda cls: cls.min)
 
-class _Shared(Obligations):
-    """Classes, labels, assertions and the interned constraint DFAs of one compilation."""
 
-    def __init__(self, classes: list[CharSet], alphabet: CharSet, cap: int,
-                 sets: dict[Chars, CharSet]):
-        super().__init__(classes)
-        self.alphabet = alphabet
-        self.cap = cap
-        self.labels = {node: frozenset(c for c, cls in enumerate(classes) if cls.min in chars)
-                       for node, chars in sets.items()}
-        self.newline_class = next((c for c, cls in enumerate(classes) if "\n" in cls), DEAD)
-        self.assertions: dict = {}
+def _captured(index: int, facts: Facts, sets: dict) -> CharSet:
+    """The characters group ``index`` may capture (those nested references read included)."""
+    found = CharSet()
+    for node in walk(facts.groups[index].item):
+        if isinstance(node, Chars):
+            found |= sets[node]
+        elif isinstance(node, Backreference):
+            inner = _captured(node.index, facts, sets)
+            found |= CharSet.from_chars(_preimage(_key(node.flags), inner, ALL))
+    return found
 
-    def compile(self, tree: Node, context: int, any_suffix: bool) -> DFA:
-        nfa = build(tree, self.labels.__getitem__, n_classes=len(self.classes),
-                    any_suffix=any_suffix, limit=NFA_STATES_PER_CAP * self.cap)
-        runner = Determiniser(self, nfa, _context_map(tree))
-        raw = automata.explore(runner.start(context), runner.step, runner.is_accepting,
-                               self.classes, self.alphabet, self.cap)
-        return minimise(raw)
 
-    def assertion(self, node: Anchor | Lookahead, context: int):
-        """What taking an assertion edge in ``context`` adds (see ``obligation``)."""
-        key = (node, context)
-        if key not in self.assertions:
-            self.assertions[key] = self._assertion(node, context)
-        return self.assertions[key]
+def _preimage(function, chars: CharSet, alphabet: CharSet) -> set[int]:
+    """Every code point of ``alphabet`` that ``function`` maps where it maps some of ``chars``."""
+    keys = {function(ord(char)) for char in chars.chars()}
+    found = {key for key in keys if key in alphabet and function(key) == key}
+    for point in _cased_points():
+        if point in alphabet and function(point) in keys:
+            found.add(point)
+    return found | {ord(char) for char in chars.chars()}
 
-    def _assertion(self, node: Anchor | Lookahead, context: int):
-        if isinstance(node, Lookahead):
-            body = self.compile(node.item, context, any_suffix=True)
-            return self.obligation(self.intern(complement(body) if node.negative else body))
-        if node.kind == "text_start":
-            return NO_OBLIGATIONS if context == START else BLOCKED
-        if node.kind == "line_start":
-            return NO_OBLIGATIONS if context in (START, NEWLINE) else BLOCKED
-        return self.obligation(self.intern(self._end_dfa(node.kind)))
 
-    def _end_dfa(self, kind: str) -> DFA:
-        """The rest-of-string language of \\Z ({""}), $ ({"", "\\n"}) or (?m)$ ("" or "\\n"…)."""
-        k, nl = len(self.classes), self.newline_class
-        rows = [[DEAD] * k]
-        if kind != "text_end" and nl != DEAD:
-            rows[0][nl] = 1
-            rows.append([1 if kind == "line_end" else DEAD] * k)
-        table = tuple(tuple(row) for row in rows)
-        raw = DFA(self.alphabet, tuple(self.classes), table, frozenset(range(len(rows))))
-        return minimise(raw)
+@functools.cache
+def _cased_points() -> tuple[int, ...]:
+    from pfuzz.syntax.casefold import case_sensitive_points
+
+    return tuple(point for lo, hi in case_sensitive_points().ranges for point in range(lo, hi + 1))

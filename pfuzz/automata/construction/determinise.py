@@ -1,214 +1,113 @@
 """Subset construction over NFA threads that carry obligations on the rest of the input.
 
-The determiniser of ``pfuzz.automata.construction.compiler`` (the subset construction of Rabin &
+The determiniser of ``pfuzz.automata.construction`` (the subset construction of Rabin &
 Scott, 1959, run by ``pfuzz.automata.dfa.explore``). A *thread* is an NFA state plus
-a set of *obligations*: (constraint, state) pairs of small DFAs, one per
-assertion taken (``$``, ``\\Z``, lookaheads), that read every later
-character and must accept at the end of the input. Obligation sets are
-interned as integers (``Obligations``); the compiler supplies the
-constraint automata and what each assertion adds.
+a set of *obligations* (``pfuzz.automata.construction.obligations``): constraints on
+the rest of the input, one per assertion taken, that must all accept at its end.
+What an assertion adds is asked of a ``Judge`` (``protocol``), given the look-back
+state (``lookback``) of the position.
 
-A configuration groups its threads by obligation set: a tuple (accepting,
-(obligation set id, state set id), ...), sorted by id, with state sets
-interned too. Threads that share their obligations (all of them, after a
-lookahead at the start of a pattern) then move together: one step advances
-each obligation set once and moves each state set once, both memoised per
-class, so the product of a pattern with its lookaheads costs a few
-dictionary lookups per step. A thread at a final state without out-edges
-only decides acceptance and is kept as the flag. Configurations of plain
-threads alone take the classic path, a union of per-state moves. A thread
-is dropped when another thread at the same NFA state carries a proper
-subset of its obligations (it accepts no more).
+A configuration is a tuple (ending, look-back state, (obligation set id, state
+set id), ...), sorted by id, with state sets interned; the look-back state is 0
+when the look-back is memoryless (then the context of a position is fixed by the
+class just read). Threads that share their obligations (all of them, after a
+lookahead at the start of a pattern) move together: one step advances each
+obligation set once and moves each state set once, both memoised per (class,
+look-back state), so the product of a pattern with its lookaheads costs a few
+dictionary lookups per step. A thread at a final state only decides acceptance
+and is kept as the ``ending`` flag; in *recording* mode (the trackers of
+``lookback``) ``ending`` is instead the set of (final state's label, obligation
+set) pairs, so a lookbehind can read how its body ended. Configurations of plain
+threads alone take the classic path, a union of per-state moves. A thread is
+dropped when another thread at the same NFA state carries a proper subset of its
+obligations (it accepts no more).
 
-Cost, measured in pure Python: about 1.5 µs per step for lookahead products
-(a four-lookahead password rule: 5,400 steps in 8 ms, 976 minimal states;
-a hostname rule under ``(?=.{1,253}$)``: 141,000 steps in 0.13 s, 23,997
-states) and about 2.7 µs per step for plain subset steps (``(a|b)*a(a|b){14}``:
-65,536 steps in 0.18 s). Memory: the memo tables hold one entry per
-(class, obligation set) and (class, state set) met.
+Cost: about 1.5 µs per step for lookahead products and 2.7 µs per plain subset step
+in pure Python (``python -m pfuzz.benchmarks compile`` measures it on this
+machine); every ε-closure step and the size of every new state set are charged to
+the judge's work budget, which bounds time and memory where configurations grow
+large although there are few of them (a search for ``.{65535}``). Memory: the
+memo tables hold one entry per (class, look-back state, obligation set) and
+(class, look-back state, state set) met.
 """
 
 from __future__ import annotations
 
-from pfuzz.automata.dfa import DEAD, DFA
-from pfuzz.automata.nfa import ASSERT, CHAR, NFA
+from pfuzz.automata.construction.obligations import BLOCKED, NO_OBLIGATIONS, Interned
+from pfuzz.automata.construction.protocol import Judge
+from pfuzz.automata.nfa import ASSERT, CHAR, FINAL, NFA
 
-#: Contexts of a position: what precedes it.
-START, NEWLINE, OTHER = 0, 1, 2
-
-#: Obligation sets are interned; id 0 is the empty set, None means "blocked".
-NO_OBLIGATIONS = 0
-BLOCKED = None
+_NO_STATES: frozenset = frozenset()
 
 
-class Interned:
-    """Values numbered 0, 1, 2, ... in the order first seen: call with a value for its number."""
+class _Moves:
+    """What reading one class does from each NFA state, in one look-back state: the plain
+    states reached, the rest (ends and obligation-carrying threads), and a memo."""
 
-    def __init__(self, *first):
-        self.values = list(first)
-        self.ids = {value: i for i, value in enumerate(first)}
+    __slots__ = ("plain", "other", "enders", "movers", "moved")
 
-    def __call__(self, value) -> int:
-        number = self.ids.get(value)
-        if number is None:
-            number = self.ids[value] = len(self.values)
-            self.values.append(value)
-        return number
-
-
-class Obligations:
-    """Interned constraint DFAs and obligation sets, and their steps, for one compilation."""
-
-    def __init__(self, classes):
-        self.classes = classes
-        self.constraints: list[DFA] = []
-        self.columns: list[tuple[int, ...]] = []
-        self.universal: list[int] = []
-        self.interned: dict[DFA, int] = {}
-        #: The interned id of a set of (constraint, state) pairs; ``sets[id]`` the set.
-        self.set_id = Interned(frozenset())
-        self.sets: list[frozenset] = self.set_id.values
-        self.advanced: list[dict[int, int | None]] = [{} for _ in classes]
-        self.ends: dict[int, bool] = {}
-        self.unions: dict[tuple[int, int], int] = {}
-
-    def intern(self, dfa: DFA) -> int:
-        cid = self.interned.get(dfa)
-        if cid is None:
-            cid = len(self.constraints)
-            self.interned[dfa] = cid
-            self.constraints.append(dfa)
-            self.columns.append(tuple(dfa.class_of(cls.min) for cls in self.classes))
-            self.universal.append(_universal_state(dfa))
-        return cid
-
-    def obligation(self, cid: int):
-        """The obligation set a new constraint adds: none (universal), BLOCKED, or one pair."""
-        if self.universal[cid] == 0:
-            return NO_OBLIGATIONS
-        if self.constraints[cid].is_empty():
-            return BLOCKED
-        return self.set_id(frozenset({(cid, 0)}))
-
-    def union(self, a: int, b: int) -> int:
-        if not a or not b or a == b:
-            return a or b
-        key = (a, b) if a < b else (b, a)
-        oid = self.unions.get(key)
-        if oid is None:
-            oid = self.unions[key] = self.set_id(self.sets[a] | self.sets[b])
-        return oid
-
-    def advance(self, oid: int, c: int):
-        """The obligation set after reading class ``c``, or BLOCKED when one of them dies."""
-        memo = self.advanced[c]
-        if oid in memo:
-            return memo[oid]
-        kept = []
-        for cid, state in self.sets[oid]:
-            nxt = self.constraints[cid].table[state][self.columns[cid][c]]
-            if nxt == DEAD:
-                kept = BLOCKED
-                break
-            if nxt != self.universal[cid]:
-                kept.append((cid, nxt))
-        result = memo[oid] = BLOCKED if kept is BLOCKED else self.set_id(frozenset(kept))
-        return result
-
-    def satisfied(self, oid: int) -> bool:
-        """Whether every obligation of the set accepts the end of the input (memoised)."""
-        hit = self.ends.get(oid)
-        if hit is None:
-            hit = self.ends[oid] = all(state in self.constraints[cid].accepting
-                                       for cid, state in self.sets[oid])
-        return hit
-
-    def prune(self, groups: dict[int, set]) -> dict[int, set]:
-        """Drop threads subsumed by a thread at the same state with fewer obligations.
-
-        ``groups`` maps obligation set ids to NFA states; a thread (state,
-        obligations) goes when another obligation set holding the same state
-        is a proper subset of its own (plain threads, id 0, subsume all).
-        """
-        if len(groups) < 2:
-            return {oid: states for oid, states in groups.items() if states}
-        sets, out = self.sets, {}
-        for oid, states in groups.items():
-            kept = states
-            if oid:
-                for other, theirs in groups.items():
-                    if other != oid and sets[other] < sets[oid] and not kept.isdisjoint(theirs):
-                        kept = kept - theirs
-            if kept:
-                out[oid] = kept
-        return out
-
-
-def _universal_state(dfa: DFA) -> int:
-    """The state of a minimal DFA whose language is U*, or DEAD when there is none."""
-    for state, row in enumerate(dfa.table):
-        if state in dfa.accepting and all(t == state for t in row):
-            return state
-    return DEAD
+    def __init__(self, plain: dict, other: dict, enders: set):
+        self.plain = plain
+        self.other = other
+        self.enders = enders  # states that reach a final state with no obligations
+        self.movers = frozenset(other)
+        self.moved: dict[int, tuple] = {}
 
 
 class Determiniser:
     """The configurations and step function of the subset construction (see the module
-    docstring). ``shared`` is the compilation's ``Obligations``, which also answers
-    ``assertion(node, context)`` and names its ``newline_class``."""
+    docstring) of ``nfa``, asking ``judge`` about assertions in ``lookback``'s states."""
 
-    def __init__(self, shared: Obligations, nfa: NFA, contexts: tuple[int, int, int]):
-        self.shared = shared
+    def __init__(self, judge: Judge, nfa: NFA, lookback, recording: bool = False):
+        self.judge = judge
+        self.sets = judge.obligations
         self.nfa = nfa
-        self.contexts = contexts
+        self.lookback = lookback
+        self.stored = lookback.stored
+        self.recording = recording
         self.closures: dict[tuple[int, int], tuple[frozenset, dict[int, frozenset]]] = {}
         #: The interned id of a set of NFA states; ``state_sets[id]`` the set.
         self.states_id = Interned()
         self.state_sets: list[frozenset] = self.states_id.values
+        self.dead = (frozenset() if recording else False, 0)
         self.sink = None
         self.final_moves = nfa.kinds[nfa.final] == CHAR
         if self.final_moves:  # L·U*: once the final state is reached, anything
-            self.sink = (False, (NO_OBLIGATIONS, self.states_id(frozenset({nfa.final}))))
-        n_classes = len(shared.classes)
-        after = [contexts[NEWLINE] if c == shared.newline_class else OTHER for c in range(n_classes)]
-        # Per class and mover: the plain states it reaches, and the rest (see ``closure``).
-        self.plain_moves: list[dict[int, frozenset]] = [{} for _ in range(n_classes)]
-        self.other_moves: list[dict[int, tuple]] = [{} for _ in range(n_classes)]
-        self.enders: list[set[int]] = [set() for _ in range(n_classes)]  # reach the end plainly
+            self.sink = (False, 0, (NO_OBLIGATIONS, self.states_id(frozenset({nfa.final}))))
+        self.readers: list[list[tuple[int, int]]] = [[] for _ in self.sets.classes]
         for s, kind in enumerate(nfa.kinds):
             if kind == CHAR:
                 (target,) = nfa.targets[s]
                 for c in nfa.labels[s]:
-                    ends, groups = self.closure(target, after[c])
-                    self.plain_moves[c][s] = groups.get(NO_OBLIGATIONS, _NO_STATES)
-                    if not ends and len(groups) == (NO_OBLIGATIONS in groups):
-                        continue  # plain threads only
-                    if NO_OBLIGATIONS in ends:
-                        self.enders[c].add(s)
-                    others = {oid: states for oid, states in groups.items() if oid}
-                    if len(ends) > (NO_OBLIGATIONS in ends) or others:
-                        self.other_moves[c][s] = (ends - {NO_OBLIGATIONS}, others)
-        self.movers = [frozenset(moves) for moves in self.other_moves]
-        self.moved: list[dict[int, tuple]] = [{} for _ in range(n_classes)]
+                    self.readers[c].append((s, target))
+        self.tables: dict[tuple[int, int], _Moves] = {}
         self.unions: dict[tuple[int, int], int] = {}
         self.prunes: dict[tuple, tuple] = {}
 
-    def start(self, context: int):
-        ends, groups = self.closure(self.nfa.start, self.contexts[context])
-        satisfied = self.shared.satisfied
-        return self.configuration(any(satisfied(o) for o in ends), groups) or (False,)
+    def intern(self, states: frozenset) -> int:
+        """The id of a state set; a new one is charged its size to the judge's work budget."""
+        known = self.states_id.ids.get(states)
+        if known is None:
+            self.judge.charge(len(states))
+            known = self.states_id(states)
+        return known
 
-    def closure(self, state: int, context: int) -> tuple[frozenset, dict[int, frozenset]]:
-        """Threads reachable by ε and assertion edges: the obligation sets of those that
-        end at a final state without out-edges, and the others grouped by obligation set."""
-        key = (state, context)
+    # -- closures ---------------------------------------------------------------------
+    def start(self, back: int):
+        ends, groups = self.closure(self.nfa.start, back)
+        return self.configuration(self.ending(ends, NO_OBLIGATIONS), back, groups)
+
+    def closure(self, state: int, back: int) -> tuple[frozenset, dict[int, frozenset]]:
+        """Threads reachable by ε and assertion edges: the (final state, obligation set)
+        pairs of those that end, and the others grouped by obligation set."""
+        key = (state, back)
         if key not in self.closures:
-            self.closures[key] = self._closure(state, context)
+            self.closures[key] = self._closure(state, back)
         return self.closures[key]
 
-    def _closure(self, state: int, context: int) -> tuple[frozenset, dict[int, frozenset]]:
-        kinds, labels, targets, final = (self.nfa.kinds, self.nfa.labels, self.nfa.targets,
-                                         self.nfa.final)
+    def _closure(self, state: int, back: int) -> tuple[frozenset, dict[int, frozenset]]:
+        kinds, labels, targets = self.nfa.kinds, self.nfa.labels, self.nfa.targets
+        judge, lookback, union = self.judge, self.lookback, self.sets.union
         groups: dict[int, set] = {}
         ends = set()
         seen = set()
@@ -219,132 +118,154 @@ class Determiniser:
                 continue
             seen.add(thread)
             s, obligations = thread
-            if kinds[s] == CHAR:
+            kind = kinds[s]
+            if kind == CHAR:
                 groups.setdefault(obligations, set()).add(s)
                 continue
-            if s == final:
-                ends.add(obligations)
+            if kind == FINAL:
+                ends.add(thread)
                 continue
-            if kinds[s] == ASSERT:
-                extra = self.shared.assertion(labels[s], context)
+            if kind == ASSERT:
+                extra = judge.assertion(labels[s], lookback, back)
                 if extra is BLOCKED:
                     continue
-                obligations = self.shared.union(obligations, extra)
+                if type(extra) is tuple:
+                    stack.extend((targets[s][0], union(obligations, e)) for e in extra)
+                    continue
+                obligations = union(obligations, extra)
             stack.extend((t, obligations) for t in targets[s])
+        judge.charge(len(seen))
         if len(groups) > 1:
-            groups = self.shared.prune(groups)
+            groups = self.sets.prune(groups)
         return frozenset(ends), {oid: frozenset(states) for oid, states in groups.items()}
 
-    def move(self, sid: int, c: int) -> tuple:
-        """What a state set reaches under class c, leaving aside the obligations its
-        threads carried: (whether a thread may end there, (obligation set id, state set
-        id), ...), memoised (state sets recur with many obligation sets)."""
-        hit = self.moved[c].get(sid)
+    def ending(self, ends, carried: int):
+        """What threads ending with ``ends`` (final state, extra set) pairs mean here."""
+        union = self.sets.union
+        if self.recording:
+            labels = self.nfa.labels
+            return frozenset((labels[f], union(carried, extra)) for f, extra in ends)
+        satisfied = self.sets.satisfied
+        return bool(ends) and satisfied(carried) and any(satisfied(extra) for _, extra in ends)
+
+    # -- moves --------------------------------------------------------------------------
+    def table(self, c: int, back: int) -> _Moves:
+        moves = self.tables.get((c, back))
+        if moves is None:
+            moves = self.tables[(c, back)] = self._table(c, back)
+        return moves
+
+    def _table(self, c: int, back: int) -> _Moves:
+        plain, other, enders = {}, {}, set()
+        for s, target in self.readers[c]:
+            ends, groups = self.closure(target, back)
+            plain[s] = groups.get(NO_OBLIGATIONS, _NO_STATES)
+            if not self.recording and any(extra == NO_OBLIGATIONS for _, extra in ends):
+                enders.add(s)
+                ends = frozenset(end for end in ends if end[1] != NO_OBLIGATIONS)
+            others = {oid: states for oid, states in groups.items() if oid}
+            if ends or others:
+                other[s] = (ends, others)
+        return _Moves(plain, other, enders)
+
+    def move(self, moves: _Moves, sid: int) -> tuple:
+        """What a state set reaches under one class, leaving aside the obligations its
+        threads carried: (plain end?, other ends, ((extra set, state set id), ...)),
+        memoised (state sets recur with many obligation sets)."""
+        hit = moves.moved.get(sid)
         if hit is None:
-            hit = self.moved[c][sid] = self.reach(sid, c)
+            hit = moves.moved[sid] = self.reach(moves, sid)
         return hit
 
-    def reach(self, sid: int, c: int) -> tuple:
+    def reach(self, moves: _Moves, sid: int) -> tuple:
         """``move`` without the memo."""
         states = self.state_sets[sid]
-        plain = frozenset().union(*filter(None, map(self.plain_moves[c].get, states)))
-        satisfied, others = self.shared.satisfied, self.other_moves[c]
+        plain = frozenset().union(*filter(None, map(moves.plain.get, states)))
         groups: dict[int, set] = {NO_OBLIGATIONS: set(plain)} if plain else {}
-        ending = not self.enders[c].isdisjoint(states)
-        for s in self.movers[c].intersection(states):
-            ends, reached = others[s]
-            ending = ending or any(satisfied(o) for o in ends)
+        ends = set()
+        for s in moves.movers.intersection(states):
+            found, reached = moves.other[s]
+            ends |= found
             for oid, targets in reached.items():
                 groups.setdefault(oid, set()).update(targets)
         if len(groups) > 1:
-            groups = self.shared.prune(groups)
-        return (ending, *sorted((oid, self.states_id(frozenset(targets)))
-                                for oid, targets in groups.items()))
+            groups = self.sets.prune(groups)
+        return (not moves.enders.isdisjoint(states), frozenset(ends),
+                tuple(sorted((oid, self.intern(frozenset(targets))) for oid, targets in groups.items())))
 
     def step(self, config: tuple, c: int):
-        shared = self.shared
-        if len(config) == 2:  # the common case: every thread carries the same obligations
-            oid, sid = config[1]
-            if oid:
-                carried = shared.advance(oid, c)
-                if carried is BLOCKED:
-                    return None
-                moved = self.move(sid, c)
-            else:  # plain threads alone: their state set is this configuration's own
-                states = self.state_sets[sid]
-                if self.movers[c].isdisjoint(states):  # and they stay plain: the subset step
-                    plain = frozenset().union(*filter(None, map(self.plain_moves[c].get, states)))
-                    ending = not self.enders[c].isdisjoint(states)
-                    if not plain:
-                        return (True,) if ending else None
-                    if self.sink is not None and self.nfa.final in plain:
-                        return self.sink
-                    known = self.states_id.ids.get(plain)
-                    return (ending, (NO_OBLIGATIONS,
-                                     self.states_id(plain) if known is None else known))
-                carried, moved = NO_OBLIGATIONS, self.reach(sid, c)
-            ending = moved[0] and shared.satisfied(carried)
-            if len(moved) == 1:
-                return (True,) if ending else None
-            if len(moved) == 2:
-                extra, states = moved[1]
-                if not extra and not carried and self.sink is not None \
-                        and self.nfa.final in self.state_sets[states]:
+        back = self.lookback.next(config[1], c)
+        moves = self.table(c, back)
+        keep = back if self.stored else 0
+        if len(config) == 3 and not config[2][0] and not self.recording:
+            states = self.state_sets[config[2][1]]
+            if moves.movers.isdisjoint(states):  # plain threads that stay plain: the subset step
+                plain = frozenset().union(*filter(None, map(moves.plain.get, states)))
+                ending = not moves.enders.isdisjoint(states)
+                if not plain:
+                    return (True, keep) if ending else None
+                if self.sink is not None and self.nfa.final in plain:
                     return self.sink
-                return (ending, (shared.union(carried, extra), states))
+                known = self.states_id.ids.get(plain)
+                return (ending, keep, (NO_OBLIGATIONS, self.intern(plain) if known is None else known))
+        return self.general_step(config, c, moves, keep)
+
+    def general_step(self, config: tuple, c: int, moves: _Moves, keep: int):
+        sets = self.sets
         pieces: dict[int, int] = {}
-        ending = False
-        for oid, sid in config[1:]:
-            carried = shared.advance(oid, c) if oid else NO_OBLIGATIONS
+        ending = frozenset() if self.recording else False
+        for oid, sid in config[2:]:
+            carried = sets.advance(oid, c) if oid else NO_OBLIGATIONS
             if carried is BLOCKED:
                 continue
-            moved = self.move(sid, c)
-            ending = ending or (moved[0] and shared.satisfied(carried))
-            for extra, states in moved[1:]:
-                key = shared.union(carried, extra)
+            plain_end, ends, groups = self.move(moves, sid)
+            if self.recording:
+                ending = ending | self.ending(ends, carried)
+            elif not ending and (plain_end or ends):
+                ending = sets.satisfied(carried) and (plain_end or any(sets.satisfied(e) for _, e in ends))
+            for extra, states in groups:
+                key = sets.union(carried, extra)
                 before = pieces.get(key)
                 pieces[key] = states if before is None else self.union_states(before, states)
         if not pieces:
-            return (True,) if ending else None
+            return (ending, keep) if ending else None
         if self.sink is not None and NO_OBLIGATIONS in pieces \
                 and self.nfa.final in self.state_sets[pieces[NO_OBLIGATIONS]]:
             return self.sink
-        config = (ending, *sorted(pieces.items()))
-        return self.pruned(config) if len(config) > 2 else config
+        config = (ending, keep, *sorted(pieces.items()))
+        return self.pruned(config) if len(config) > 3 else config
 
     def union_states(self, a: int, b: int) -> int:
         key = (a, b) if a < b else (b, a)
         hit = self.unions.get(key)
         if hit is None:
-            hit = self.unions[key] = self.states_id(self.state_sets[a] | self.state_sets[b])
+            hit = self.unions[key] = self.intern(self.state_sets[a] | self.state_sets[b])
         return hit
 
     def pruned(self, config: tuple) -> tuple:
         """A configuration of several groups with subsumed threads dropped (memoised)."""
         hit = self.prunes.get(config)
         if hit is None:
-            groups = {oid: self.state_sets[sid] for oid, sid in config[1:]}
-            hit = self.prunes[config] = self.configuration(config[0], groups)
+            groups = {oid: self.state_sets[sid] for oid, sid in config[2:]}
+            hit = self.prunes[config] = self.configuration(config[0], config[1], groups, stored=True)
         return hit
 
-    def configuration(self, ending: bool, groups: dict):
-        """The canonical configuration of the flag and the threads by obligation set."""
+    def configuration(self, ending, back: int, groups: dict, stored: bool = False):
+        """The canonical configuration of the ending and the threads by obligation set."""
         if self.sink is not None and self.nfa.final in groups.get(NO_OBLIGATIONS, ()):
             return self.sink
         if len(groups) > 1:
-            groups = self.shared.prune(groups)
+            groups = self.sets.prune(groups)
         if not groups and not ending:
             return None
-        return (ending, *sorted((oid, self.states_id(frozenset(states)))
-                                for oid, states in groups.items()))
+        keep = back if stored or self.stored else 0
+        return (ending, keep, *sorted((oid, self.intern(frozenset(states)))
+                                      for oid, states in groups.items()))
 
     def is_accepting(self, config) -> bool:
         if config[0]:
             return True
         if not self.final_moves:
             return False
-        final, satisfied = self.nfa.final, self.shared.satisfied
-        return any(final in self.state_sets[sid] and satisfied(oid) for oid, sid in config[1:])
-
-
-_NO_STATES: frozenset = frozenset()
+        final, satisfied = self.nfa.final, self.sets.satisfied
+        return any(final in self.state_sets[sid] and satisfied(oid) for oid, sid in config[2:])
