@@ -1,4 +1,4 @@
-"""Pattern text to syntax tree: a recursive-descent parser for the regular subset of ``re``.
+"""Pattern text to syntax tree: a recursive-descent parser for Python ``re`` syntax.
 
 The pattern is first compiled by ``re`` itself, so every syntax error ``re``
 rejects becomes a ``PatternError`` with ``re``'s own message and position.
@@ -13,7 +13,8 @@ Then one method per grammar rule builds the tree of ``pfuzz.syntax.tree``::
                    alternation ')'
                  | '(?P=' name ')' | '(?(' name-or-number ')' sequence ('|' sequence)? ')'
 
-Escapes are read by ``pfuzz.syntax.escapes``, classes by ``pfuzz.syntax.classes``. The rules
+Escapes are read by ``pfuzz.syntax.escapes``, classes by ``pfuzz.syntax.classes``,
+groups by ``pfuzz.syntax.groups``; ``pfuzz.syntax.items`` builds the nodes of a sequence. The rules
 follow ``re/_parser.py`` (Python 3.11) wherever the language depends on them:
 a ``{`` that opens no valid quantifier is a literal; global inline flags stand
 at the start; a scoped ``(?a:...)`` replaces the ASCII/Unicode mode; and an
@@ -40,30 +41,20 @@ from __future__ import annotations
 
 import re
 import warnings
-from dataclasses import dataclass
+from dataclasses import replace
 
 from pfuzz.base.charset import ALL, CharSet
 from pfuzz.syntax.classes import escape_chars, read_class
 from pfuzz.errors import PatternError
 from pfuzz.syntax.escapes import read_escape
-from pfuzz.syntax.tree import (Alternation, Anchor, Atomic, Backreference, Boundary, Chars, Conditional,
-                               Group, Lookahead, Lookbehind, Node, Repeat, Sequence, children, walk, width)
+from pfuzz.syntax.flags import ASCII, ATOM_FLAGS, DOTALL, LOCALE, MULTILINE, SUPPORTED_FLAGS, VERBOSE
+from pfuzz.syntax.groups import GroupRules
+from pfuzz.syntax.items import Item, build, merge_options
+from pfuzz.syntax.tree import (Alternation, Anchor, Boundary, Chars, Conditional, Group, Node, Repeat, Sequence,
+                               children, walk)
 
-# re's flag values as plain ints (RegexFlag arithmetic is slow in a hot loop).
-IGNORECASE, MULTILINE, DOTALL, VERBOSE = (int(flag) for flag in (re.I, re.M, re.S, re.X))
-ASCII, UNICODE, LOCALE, TEMPLATE = (int(flag) for flag in (re.A, re.U, re.L, re.T))
-# TEMPLATE changes no match: re refuses it only with repeats, at compile time.
-SUPPORTED_FLAGS = IGNORECASE | MULTILINE | DOTALL | VERBOSE | ASCII | UNICODE | TEMPLATE
-ATOM_FLAGS = IGNORECASE | ASCII | DOTALL
-TYPE_FLAGS = ASCII | UNICODE | LOCALE
-INLINE_FLAGS = {
-    "i": IGNORECASE, "m": MULTILINE, "s": DOTALL, "x": VERBOSE,
-    "a": ASCII, "u": UNICODE, "L": LOCALE, "t": TEMPLATE,
-}
 VERBOSE_SPACE = frozenset(" \t\n\r\v\f")
 DIGITS = frozenset("0123456789")
-UNBOUNDED_REFERENCE = ("refers to a group that can match strings of any length; pfuzz compiles "
-                       "backreferences only to groups with finitely many strings")
 ANY_BUT_NEWLINE = ALL - CharSet.single("\n")
 
 
@@ -112,31 +103,7 @@ def _rejection_by_re(pattern: str, flags: int) -> PatternError | None:
     return None
 
 
-@dataclass(frozen=True)
-class _Item:
-    """One element of a sequence while parsing.
-
-    ``ops`` is how many elements ``re``'s own parser sees here (its groups
-    without flags dissolve into their parent), ``plain`` whether it is a
-    single literal or non-negated class, which ``re`` merges across ``|``.
-    """
-
-    node: Node
-    ops: int = 1
-    plain: bool = False
-
-
-@dataclass(frozen=True)
-class _FlagSpec:
-    """The flag letters of ``(?aimsux-imsx:`` or ``(?aimsux)``."""
-
-    add: int
-    remove: int
-    terminator: str
-    end: int
-
-
-class _Parser:
+class _Parser(GroupRules):
     def __init__(self, pattern: str):
         self.text = pattern
         self.pos = 0
@@ -188,7 +155,7 @@ class _Parser:
         items = self.alternation(flags)
         if self.pos < len(self.text):
             raise self.error("unbalanced parenthesis", self.pos)
-        return _build(items, start)
+        return build(items, start)
 
     def leading_flags(self, flags: int) -> int:
         """Apply the global ``(?flags)`` groups at the start of the pattern."""
@@ -201,7 +168,7 @@ class _Parser:
             flags |= spec.add
             self.pos = spec.end
 
-    def alternation(self, flags: int) -> list[_Item]:
+    def alternation(self, flags: int) -> list[Item]:
         start = self.pos
         options = [self.sequence(flags)]
         starts = [start]
@@ -211,14 +178,14 @@ class _Parser:
             options.append(self.sequence(flags))
         if len(options) == 1:
             return options[0]
-        merged = _merge_options(options, start)
+        merged = merge_options(options, start)
         if merged is not None:
-            return [_Item(merged, 1, True)]
-        nodes = tuple(_build(option, at) for option, at in zip(options, starts))
-        return [_Item(Alternation(nodes, start))]
+            return [Item(merged, 1, True)]
+        nodes = tuple(build(option, at) for option, at in zip(options, starts))
+        return [Item(Alternation(nodes, start))]
 
-    def sequence(self, flags: int) -> list[_Item]:
-        items: list[_Item] = []
+    def sequence(self, flags: int) -> list[Item]:
+        items: list[Item] = []
         while True:
             self.skip_ignored(flags)
             char = self.peek()
@@ -232,13 +199,13 @@ class _Parser:
                 items.append(self.item(flags))
 
     # -- quantifiers -----------------------------------------------------------------
-    def quantified(self, item: _Item) -> _Item:
+    def quantified(self, item: Item) -> Item:
         start = self.pos
         minimum, maximum = self.bounds()
         mode = self.peek() if self.peek() in ("?", "+") else ""
         self.pos += len(mode)
         self.ordered = self.ordered or mode == "+"
-        return _Item(Repeat(item.node, minimum, maximum, start, lazy=mode == "?", possessive=mode == "+"))
+        return Item(Repeat(item.node, minimum, maximum, start, lazy=mode == "?", possessive=mode == "+"))
 
     def bounds(self) -> tuple[int, int | None]:
         simple = {"*": (0, None), "+": (1, None), "?": (0, 1)}.get(self.peek())
@@ -265,7 +232,7 @@ class _Parser:
         return int(low) if low else 0, int(high) if high else None, close + 1
 
     # -- items -------------------------------------------------------------------
-    def item(self, flags: int) -> _Item:
+    def item(self, flags: int) -> Item:
         char = self.peek()
         if char == "\\":
             return self.escape(flags)
@@ -279,19 +246,19 @@ class _Parser:
             return self.anchor(char, flags)
         return self.literal(flags)
 
-    def literal(self, flags: int) -> _Item:
+    def literal(self, flags: int) -> Item:
         start = self.pos
         self.pos += 1
         char = self.text[start]
-        return _Item(Chars(CharSet.single(char), start, char, flags & ATOM_FLAGS), 1, True)
+        return Item(Chars(CharSet.single(char), start, char, flags & ATOM_FLAGS), 1, True)
 
-    def dot(self, flags: int) -> _Item:
+    def dot(self, flags: int) -> Item:
         start = self.pos
         self.pos += 1
         chars = ALL if flags & DOTALL else ANY_BUT_NEWLINE
-        return _Item(Chars(chars, start, ".", flags & ATOM_FLAGS))
+        return Item(Chars(chars, start, ".", flags & ATOM_FLAGS))
 
-    def anchor(self, char: str, flags: int) -> _Item:
+    def anchor(self, char: str, flags: int) -> Item:
         start = self.pos
         self.pos += 1
         multiline = bool(flags & MULTILINE)
@@ -299,170 +266,36 @@ class _Parser:
             kind = "line_start" if multiline else "text_start"
         else:
             kind = "line_end" if multiline else "end_or_final_newline"
-        return _Item(Anchor(kind, start))
+        return Item(Anchor(kind, start))
 
-    def escape(self, flags: int) -> _Item:
+    def escape(self, flags: int) -> Item:
         escape = read_escape(self.text, self.pos, in_class=False)
         source = self.text[escape.start : escape.end]
         if escape.kind == "anchor":
             self.pos = escape.end
-            return _Item(Anchor("text_start" if escape.value == "A" else "text_end", escape.start))
+            return Item(Anchor("text_start" if escape.value == "A" else "text_end", escape.start))
         if escape.kind == "boundary":
             self.pos = escape.end
-            return _Item(Boundary(escape.value == "B", bool(flags & ASCII), escape.start))
+            return Item(Boundary(escape.value == "B", bool(flags & ASCII), escape.start))
         if escape.kind == "backreference":
             return self.reference(escape.value, escape.start, escape.end, flags)
         self.pos = escape.end
         chars = escape_chars(escape, ascii_only=bool(flags & ASCII))
-        return _Item(Chars(chars, escape.start, source, flags & ATOM_FLAGS), 1, True)
+        return Item(Chars(chars, escape.start, source, flags & ATOM_FLAGS), 1, True)
 
-    def char_class(self, flags: int) -> _Item:
+    def char_class(self, flags: int) -> Item:
         start = self.pos
         found = read_class(self.text, start, ascii_only=bool(flags & ASCII))
         self.pos = found.end
         source = self.text[start : self.pos]
-        return _Item(Chars(found.chars, start, source, flags & ATOM_FLAGS), 1, not found.negated)
+        return Item(Chars(found.chars, start, source, flags & ATOM_FLAGS), 1, not found.negated)
 
-    # -- groups ------------------------------------------------------------------
-    def group(self, flags: int) -> _Item:
-        start = self.pos
-        if not self.text.startswith("(?", start):
-            self.pos += 1
-            return self.capturing(start, None, flags)
-        rest = self.text[start + 2 : start + 4]
-        if rest.startswith("P<"):
-            close = self.text.index(">", start)
-            name = self.text[start + 4 : close]
-            self.pos = close + 1
-            return self.capturing(start, name, flags)
-        if rest.startswith("P="):
-            close = self.text.index(")", start)
-            self.pos = close + 1
-            return self.reference(self.names[self.text[start + 4 : close]], start, close + 1, flags)
-        if rest.startswith(":"):
-            self.pos = start + 3
-            return _dissolved(self.group_body(start, flags), start)
-        if rest[:1] in ("=", "!", ">") or rest in ("<=", "<!"):
-            return self.lookaround_or_atomic(start, rest, flags)
-        if rest.startswith("("):
-            return self.conditional(start, flags)
-        return self.scoped_group(start, flags)
-
-    def capturing(self, start: int, name: str | None, flags: int) -> _Item:
-        self.groups += 1
-        index = self.groups
-        if name is not None:
-            self.names[name] = index
-        body = _build(self.group_body(start, flags), start)
-        self.widths[index] = width(body, dict(self.widths))
-        return _Item(Group(body, index, start))
-
-    def reference(self, index: int, start: int, end: int, flags: int) -> _Item:
-        """A backreference to group ``index``, refused when that group's width is unbounded."""
-        if self.widths[index][1] is None:
-            raise self.error(f"backreference {self.text[start:end]} {UNBOUNDED_REFERENCE}", start)
-        self.pos = end
-        self.referenced.add(index)
-        return _Item(Backreference(index, flags & (IGNORECASE | ASCII), start))
-
-    def lookaround_or_atomic(self, start: int, rest: str, flags: int) -> _Item:
-        behind = rest.startswith("<")
-        self.pos = body_start = start + 3 + behind
-        body = _build(self.group_body(start, flags), body_start)
-        if rest[0] == ">":
-            self.ordered = True
-            return _Item(Atomic(body, start))
-        if behind:
-            return _Item(Lookbehind(body, rest[1] == "!", start))
-        return _Item(Lookahead(body, rest[0] == "!", start))
-
-    def conditional(self, start: int, flags: int) -> _Item:
-        """``(?(name)yes|no)``; re has checked the name (a group name or a number)."""
-        close = self.text.index(")", start + 3)
-        name = self.text[start + 3 : close]
-        index = self.names[name] if name in self.names else int(name)
-        self.referenced.add(index)
-        self.pos = close + 1
-        yes_start = self.pos
-        yes = _build(self.sequence(flags), yes_start)
-        no = Sequence((), self.pos)
-        if self.peek() == "|":
-            self.pos += 1
-            no = _build(self.sequence(flags), self.pos)
-        if self.peek() != ")":
-            raise self.error("missing ), unterminated subpattern", start)
-        self.pos += 1
-        return _Item(Conditional(index, yes, no, start))
-
-    def scoped_group(self, start: int, flags: int) -> _Item:
-        spec = self.flag_spec(start + 2)
-        if spec is None:
-            raise self.error(f"unknown extension {self.text[start + 1 : start + 3]}", start + 1)
-        if spec.terminator == ")":
-            raise self.error("global flags not at the start of the expression", start)
-        self.pos = spec.end
-        inner = flags & ~TYPE_FLAGS if spec.add & TYPE_FLAGS else flags
-        inner = (inner | spec.add) & ~spec.remove
-        return _Item(_build(self.group_body(start, inner), start))
-
-    def group_body(self, start: int, flags: int) -> list[_Item]:
-        items = self.alternation(flags)
-        if self.peek() != ")":
-            raise self.error("missing ), unterminated subpattern", start)
-        self.pos += 1
-        return items
-
-    def flag_spec(self, index: int) -> _FlagSpec | None:
-        """Read ``aimsux-imsx`` then ``:`` or ``)`` from ``index``; None if no flag letter or '-' is there."""
-        add, index = _flag_letters(self.text, index)
-        remove = 0
-        if self.text[index : index + 1] == "-":
-            remove, index = _flag_letters(self.text, index + 1)
-        elif not add:
-            return None
-        terminator = self.text[index : index + 1]
-        if terminator not in (")", ":"):
-            raise self.error("missing -, : or )", index)
-        return _FlagSpec(add, remove, terminator, index + 1)
-
-
-def _flag_letters(text: str, index: int) -> tuple[int, int]:
-    value = 0
-    while index < len(text) and text[index] in INLINE_FLAGS:
-        value |= INLINE_FLAGS[text[index]]
-        index += 1
-    return value, index
 
 
 def _digits_end(text: str, index: int) -> int:
     while index < len(text) and text[index] in DIGITS:
         index += 1
     return index
-
-
-def _dissolved(items: list[_Item], start: int) -> _Item:
-    """A group without flags: re splices its elements into the parent sequence."""
-    ops = sum(item.ops for item in items)
-    return _Item(_build(items, start), ops, _single_plain(items) is not None)
-
-
-def _single_plain(items: list[_Item]) -> Chars | None:
-    """The one literal or non-negated class these items amount to in re's eyes, if so."""
-    counted = [item for item in items if item.ops]
-    if len(counted) != 1 or counted[0].ops != 1 or not counted[0].plain:
-        return None
-    node = _build(items, 0)
-    return node if isinstance(node, Chars) else None
-
-
-def _merge_options(options: list[list[_Item]], start: int) -> Chars | None:
-    """The one class re makes of ``a|[bc]|\\d`` (options that are single plain atoms), or None."""
-    atoms = [_single_plain(option) for option in options]
-    if any(atom is None for atom in atoms) or len({atom.flags for atom in atoms}) != 1:
-        return None
-    chars = CharSet.union([atom.chars for atom in atoms])
-    source = "|".join(atom.source for atom in atoms)
-    return Chars(chars, start, source, atoms[0].flags)
 
 
 def _finish(tree: Node, referenced: set[int], ordered: bool) -> Node:
@@ -477,31 +310,11 @@ def _rewrite(node: Node, referenced: set[int], ordered: bool) -> Node:
     if isinstance(node, Group) and node.index not in referenced:
         return parts[0]
     if isinstance(node, Sequence):
-        return _build([_Item(part) for part in parts], node.position)
+        return build([Item(part) for part in parts], node.position)
     if isinstance(node, Alternation):
-        return Alternation(tuple(parts), node.position)
-    if isinstance(node, Repeat):
-        return Repeat(parts[0], node.min, node.max, node.position, node.lazy and ordered, node.possessive)
+        return replace(node, options=tuple(parts))
     if isinstance(node, Conditional):
-        return Conditional(node.index, parts[0], parts[1], node.position)
-    if parts:
-        return type(node)(parts[0], *[getattr(node, field) for field in _FIELDS[type(node)]])
-    return node
-
-
-#: The fields after ``item`` of the nodes with one child, in constructor order.
-_FIELDS = {Lookahead: ("negative", "position"), Lookbehind: ("negative", "position"),
-           Group: ("index", "position"), Atomic: ("position",)}
-
-
-def _build(items: list[_Item], position: int) -> Node:
-    """The node for a run of items: nested sequences spliced, a single item as itself."""
-    nodes: list[Node] = []
-    for item in items:
-        if isinstance(item.node, Sequence):
-            nodes.extend(item.node.items)
-        else:
-            nodes.append(item.node)
-    if len(nodes) == 1:
-        return nodes[0]
-    return Sequence(tuple(nodes), position)
+        return replace(node, yes=parts[0], no=parts[1])
+    if isinstance(node, Repeat):
+        return replace(node, item=parts[0], lazy=node.lazy and ordered)
+    return replace(node, item=parts[0]) if parts else node
