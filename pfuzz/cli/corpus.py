@@ -133,6 +133,10 @@ def _print_summary(summary) -> None:
         say(f"  record {rec['name']}: {rec['valid_rows']:,} valid rows, "
             f"{rec['invalid_rows']:,} rows with one near-miss field")
     say(f"  cases.csv: {summary.cases:,} cases; manifest.json and SHA256SUMS list every file")
+    if "qa.xlsx" in summary.files:
+        say("  qa.xlsx: the same cases as a spreadsheet for people who test by hand")
+    else:
+        say("  qa.xlsx not written: the QA workbook needs openpyxl (pip install 'pfuzz[report]')")
 
 
 def _size(n: int) -> str:
