@@ -115,15 +115,7 @@ class DFA:
 
     def live_states(self) -> set[int]:
         """States from which some accepting state is reachable."""
-        preds = self.predecessors()
-        live = set(self.accepting)
-        stack = list(live)
-        while stack:
-            for p in preds[stack.pop()]:
-                if p not in live:
-                    live.add(p)
-                    stack.append(p)
-        return live
+        return reachable(self.predecessors(), self.accepting)
 
     def is_empty(self) -> bool:
         return 0 not in self.live_states()
@@ -148,6 +140,18 @@ def transitions(dfa: DFA, live: Optional[Container[int]] = None) -> list[list[tu
         edges.sort(key=lambda edge: edge[0].min)
         out.append(edges)
     return out
+
+
+def reachable(edges, seeds) -> set[int]:
+    """Every node reachable from ``seeds`` along ``edges`` (``edges[n]``: the nodes after n)."""
+    found = set(seeds)
+    stack = list(found)
+    while stack:
+        for node in edges[stack.pop()]:
+            if node not in found:
+                found.add(node)
+                stack.append(node)
+    return found
 
 
 # -- construction --------------------------------------------------------------

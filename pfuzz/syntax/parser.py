@@ -31,10 +31,9 @@ IGNORECASE is applied here; atoms keep their source text and flags for
 its first character: a backreference to a group whose width is unbounded (such as
 ``(a+)\\1`` or ``(.*)\\1``: whether such a pattern is regular cannot be decided in
 general, so pfuzz compiles backreferences only to groups with finitely many
-strings), the LOCALE flag, and bytes patterns. Cost: linear in the pattern length (tens of
-microseconds for a validator pattern) plus ``re``'s cached compile; each of
-``\\d``, ``\\w`` and ``\\s`` pays about 40 ms the first time a process uses
-it, for its table in ``pfuzz.syntax.categories``.
+strings), the LOCALE flag, and bytes patterns. Cost: linear in the pattern length plus
+``re``'s cached compile; each of ``\\d``, ``\\w`` and ``\\s`` loads its table from
+``pfuzz.syntax.categories`` the first time a process uses it.
 """
 
 from __future__ import annotations

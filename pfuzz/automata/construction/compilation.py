@@ -33,8 +33,9 @@ from typing import Hashable
 from pfuzz.automata.algebra import complement
 from pfuzz.automata.construction.determinise import Determiniser
 from pfuzz.automata.construction.lookback import (AFTER_ASCII_WORD, AFTER_NEWLINE, AFTER_WORD, AT_START,
-                                                  LookBack, Needs, Tracker)
+                                                  LookBack, Tracker, scan)
 from pfuzz.automata.construction.obligations import BLOCKED, NO_OBLIGATIONS, Obligations
+from pfuzz.automata.construction.liveness import live_groups
 from pfuzz.automata.construction.registers import UNSET, UNTOUCHED, PriorityCheck, Registers, expand
 from pfuzz.automata.dfa import DEAD, DFA, explore
 from pfuzz.automata.minimise import minimise
@@ -42,7 +43,7 @@ from pfuzz.automata.nfa import FINAL, NFA, build
 from pfuzz.base.charset import ALL, CharSet
 from pfuzz.errors import StateLimitError
 from pfuzz.syntax.tree import (Anchor, Atomic, Backreference, Boundary, Chars, Conditional, Group,
-                               Lookahead, Lookbehind, Node, Repeat, Sequence, children, walk)
+                               Lookahead, Lookbehind, Node, Repeat, Sequence, walk)
 
 #: The NFA may have at most this many states per allowed DFA state.
 NFA_STATES_PER_CAP = 4
@@ -100,6 +101,7 @@ class Compilation:
         self.lookbacks: dict[Node, LookBack] = {}
         self.tracker_nfas: dict[tuple, NFA] = {}
         self.verdicts: dict[tuple, object] = {}
+        self.liveness: dict[tuple, list] = {}
 
     # -- building and determinising ------------------------------------------------------
     def label_of(self, node: Chars) -> frozenset[int]:
@@ -119,19 +121,27 @@ class Compilation:
         return hit
 
     def expand(self, nfa: NFA, starts: list, stop: int, accept, any_suffix: bool,
-               recording: bool = False, ignored: int | None = None) -> NFA:
+               recording: bool = False, ignored: int | None = None, reads: frozenset = frozenset()) -> NFA:
+        """The plain NFA of ``nfa`` with registers; ``reads`` are the groups ``accept`` reads."""
         return expand(nfa, self.registers, starts, stop, accept, self.lookaround_edges,
                       n_classes=len(self.classes), limit=self.limit, any_suffix=any_suffix,
-                      recording=recording, ignored=ignored)
+                      recording=recording, ignored=ignored, live=self.live(nfa, reads))
+
+    def live(self, nfa: NFA, reads: frozenset) -> list[frozenset]:
+        key = (id(nfa), reads)
+        if key not in self.liveness:
+            self.liveness[key] = live_groups(nfa, self.registers.layout, _label_reads, reads)
+        return self.liveness[key]
 
     def compile(self, tree: Node, lookback: LookBack, back: int, any_suffix: bool,
-                memory: int | None = None, accept=None, scoped: bool = False) -> DFA:
+                memory: int | None = None, accept=None, scoped: bool = False,
+                reads: frozenset = frozenset()) -> DFA:
         """The minimal DFA of full matches of ``tree`` (then anything, with ``any_suffix``)
         from look-back state ``back`` and register memory ``memory``."""
         program = self.nfa(tree, scoped)
         if program.registers or memory is not None:
             nfa = self.expand(program, [(program.start, memory or 0)], program.final,
-                              accept or _always, any_suffix)
+                              accept or _always, any_suffix, reads=reads)
         else:
             nfa = self.nfa(tree, scoped, any_suffix) if any_suffix else program
         return self.determinise(nfa, lookback, back)
@@ -155,7 +165,7 @@ class Compilation:
         """The look-back that ``tree``'s assertions need (lookbehind bodies have their own)."""
         hit = self.lookbacks.get(tree)
         if hit is None:
-            needs, behinds = _scan(tree)
+            needs, behinds = scan(tree)
             trackers = {(node, given): self.tracker(node, given)
                         for node in behinds for given in self.givens(node)}
             hit = self.lookbacks[tree] = LookBack(needs, self.features, trackers)
@@ -178,7 +188,7 @@ class Compilation:
             if program.registers or given is not None:
                 accept = (lambda m: self.registers.outcome(m, inner)) if keep else _always
                 nfa = self.expand(program, [(program.start, given or 0)], program.final, accept,
-                                  False, recording=True)
+                                  False, recording=True, reads=frozenset(inner))
             self.tracker_nfas[key] = (nfa, tree)
         return self.tracker_nfas[key]
 
@@ -246,7 +256,8 @@ class Compilation:
         else:
             program = self.nfa(node.item, scoped=True)
             nfa = self.expand(program, [(program.start, given)], program.final,
-                              lambda m: self.registers.outcome(m, inner), False, recording=True)
+                              lambda m: self.registers.outcome(m, inner), False, recording=True,
+                              reads=frozenset(inner))
         outcomes = {nfa.labels[s] for s, kind in enumerate(nfa.kinds) if kind == FINAL}
         return [(Check(node, given, outcome), self.registers.apply(memory, outcome))
                 for outcome in sorted(outcomes - {None}, key=repr)]
@@ -302,7 +313,7 @@ class Compilation:
             accept = _always if outcome is None else \
                 (lambda m: True if self.registers.outcome(m, inner) == outcome else None)
             body = self.compile(node.item, lookback, back, True, memory=given, accept=accept,
-                                scoped=outcome is not None)
+                                scoped=outcome is not None, reads=frozenset(inner))
         return self.obligations.obligation(complement(body) if node.negative else body)
 
     def behind(self, node: Lookbehind, given, outcome, lookback: LookBack, back: int):
@@ -350,27 +361,6 @@ class Compilation:
 
 # -- tree facts -------------------------------------------------------------------------
 
-def _scan(tree: Node) -> tuple[Needs, list[Lookbehind]]:
-    """What the tree's assertions ask of the previous character, and its lookbehinds,
-    without looking inside the lookbehinds (their trackers have their own look-back)."""
-    start = newline = word = ascii_word = False
-    behinds = []
-    stack = [tree]
-    while stack:
-        node = stack.pop()
-        if isinstance(node, Lookbehind):
-            behinds.append(node)
-            continue
-        if isinstance(node, Anchor) and node.kind in ("text_start", "line_start"):
-            start = True
-            newline = newline or node.kind == "line_start"
-        elif isinstance(node, Boundary):
-            start = start or node.negative
-            word, ascii_word = word or not node.ascii, ascii_word or node.ascii
-        stack.extend(children(node))
-    return Needs(start, newline, word, ascii_word), behinds
-
-
 def _inner_groups(node: Node) -> tuple[int, ...]:
     return tuple(sorted({n.index for n in walk(node.item) if isinstance(n, Group)}))
 
@@ -382,3 +372,10 @@ def _referenced(node: Node) -> set[int]:
 def _touches(node: Node) -> bool:
     """Whether a lookaround's body reads or sets what groups captured."""
     return any(isinstance(n, (Group, Backreference, Conditional)) for n in walk(node.item))
+
+
+def _label_reads(label: Hashable) -> frozenset:
+    """The groups an assertion edge's label reads (see ``registers.live_groups``)."""
+    if isinstance(label, (Lookahead, Lookbehind)) and _touches(label):
+        return frozenset(_referenced(label)) | frozenset(_inner_groups(label))
+    return frozenset()

@@ -22,11 +22,11 @@ threads alone take the classic path, a union of per-state moves. A thread is
 dropped when another thread at the same NFA state carries a proper subset of its
 obligations (it accepts no more).
 
-Cost: about 1.5 µs per step for lookahead products and 2.7 µs per plain subset step
-in pure Python (``python -m pfuzz.benchmarks compile`` measures it on this
-machine); every ε-closure step and the size of every new state set are charged to
-the judge's work budget, which bounds time and memory where configurations grow
-large although there are few of them (a search for ``.{65535}``). Memory: the
+Cost: a few dictionary lookups per step for lookahead products and one union of
+per-state moves per plain subset step (``python -m pfuzz.benchmarks compile`` gives
+the figures on a machine); every ε-closure step and the size of every new state set
+are charged to the judge's work budget, which bounds time and memory where
+configurations grow large although there are few of them (a search for ``.{65535}``). Memory: the
 memo tables hold one entry per (class, look-back state, obligation set) and
 (class, look-back state, state set) met.
 """

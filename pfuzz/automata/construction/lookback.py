@@ -26,6 +26,7 @@ from dataclasses import dataclass
 from typing import Hashable
 
 from pfuzz.automata.construction.obligations import Interned
+from pfuzz.syntax.tree import Anchor, Boundary, Lookbehind, Node, children
 
 #: What a context says: (at the start, after '\\n', after a word character, after an ASCII one).
 AT_START, AFTER_NEWLINE, AFTER_WORD, AFTER_ASCII_WORD = range(4)
@@ -97,3 +98,24 @@ class LookBack:
     def ends(self, back: int, key: Hashable) -> frozenset:
         """The (outcome, obligation set) pairs with which tracker ``key``'s X ends here."""
         return self.states.values[back][1][self.keys[key]][0]
+
+
+def scan(tree: Node) -> tuple[Needs, list[Lookbehind]]:
+    """What the tree's assertions ask of the previous character, and its lookbehinds,
+    without looking inside the lookbehinds (their trackers have their own look-back)."""
+    start = newline = word = ascii_word = False
+    behinds = []
+    stack = [tree]
+    while stack:
+        node = stack.pop()
+        if isinstance(node, Lookbehind):
+            behinds.append(node)
+            continue
+        if isinstance(node, Anchor) and node.kind in ("text_start", "line_start"):
+            start = True
+            newline = newline or node.kind == "line_start"
+        elif isinstance(node, Boundary):
+            start = start or node.negative
+            word, ascii_word = word or not node.ascii, ascii_word or node.ascii
+        stack.extend(children(node))
+    return Needs(start, newline, word, ascii_word), behinds

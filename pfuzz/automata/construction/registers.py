@@ -21,6 +21,11 @@ not by the case folding of literals, so ``(?i)(s)\\1`` refuses "sſ" though
 captured only when the group reopened right where it last closed (``sre``
 compares the new start mark with the old end mark).
 
+Each state keeps only the registers a run from it may still read (``live_groups``, a
+backward liveness fixpoint), and states from which no final state can be reached are
+cut, so threads that differ only in what no later step reads are one thread: a search
+for ``\\d{4}([-/.])\\d{2}\\1\\d{2}`` does not carry every separator it has seen.
+
 Cost: the expanded NFA has one state per reachable (state, memory) pair; it is
 bounded by ``limit`` (``StateLimitError``). Memories are interned and their
 operations memoised.
@@ -33,6 +38,7 @@ from dataclasses import dataclass
 from typing import Callable, Hashable
 
 from pfuzz.automata.construction.obligations import Interned
+from pfuzz.automata.dfa import reachable
 from pfuzz.automata.nfa import (ASSERT, BACKREF, CHAR, CLOSE, CONDITION, EPSILON, FINAL, LOOP_BEGIN,
                                 LOOP_END, LOOP_TEST, NFA, OPEN, Priority, make_any_suffix)
 from pfuzz.errors import StateLimitError
@@ -191,6 +197,13 @@ class Registers:
             groups[self.slot[group]] = register
         return self.memories((tuple(groups), loops))
 
+    def restrict(self, mid: int, live: frozenset) -> int:
+        """The memory with the groups outside ``live`` forgotten (no later step reads them)."""
+        def make():
+            groups, loops = self.values[mid]
+            return tuple(r if g in live else UNSET for g, r in zip(self.layout.groups, groups)), loops
+        return self._remember(("restrict", mid, live), make)
+
     def with_groups(self, registers: dict[int, tuple]) -> int:
         """The memory whose groups have ``registers`` (others unset) and no guards."""
         return self.memories((tuple(registers.get(g, UNSET) for g in self.layout.groups), ()))
@@ -202,7 +215,7 @@ Lookarounds = Callable[[Hashable, int], list]
 def expand(nfa: NFA, registers: Registers, starts: list[tuple[int, int]], stop: int,
            accept: Callable[[int], Hashable | None], lookarounds: Lookarounds, *, n_classes: int,
            limit: int, any_suffix: bool = False, recording: bool = False,
-           ignored: int | None = None) -> NFA:
+           ignored: int | None = None, live: list[frozenset] | None = None) -> NFA:
     """The plain NFA of the (state, memory) pairs reachable from ``starts`` up to ``stop``.
 
     At ``stop`` with memory m the run ends if ``accept(m)`` is not None: all accepted
@@ -211,16 +224,17 @@ def expand(nfa: NFA, registers: Registers, starts: list[tuple[int, int]], stop: 
     (label, memory after) pairs of a lookaround edge. The Priority assertions of
     scope ``ignored`` become plain ε-edges: whether some run from a point of a scope
     reaches its end does not depend on them (the first such run in ``re``'s order
-    satisfies them all), while the scopes nested inside still restrict the runs."""
-    return _Expander(nfa, registers, stop, accept, lookarounds, limit, ignored).run(
+    satisfies them all), while the scopes nested inside still restrict the runs. With
+    ``live`` (of ``live_groups``), each state keeps only the registers it may still read."""
+    return _Expander(nfa, registers, stop, accept, lookarounds, limit, ignored, live).run(
         starts, n_classes, any_suffix, recording)
 
 
 class _Expander:
-    def __init__(self, nfa, registers, stop, accept, lookarounds, limit, ignored):
+    def __init__(self, nfa, registers, stop, accept, lookarounds, limit, ignored, live):
         self.nfa, self.registers, self.stop = nfa, registers, stop
         self.accept, self.lookarounds, self.limit = accept, lookarounds, limit
-        self.ignored = ignored
+        self.ignored, self.live = ignored, live
         self.kinds: list[str] = []
         self.labels: list = []
         self.targets: list[list[int]] = []
@@ -239,6 +253,8 @@ class _Expander:
         return len(self.kinds) - 1
 
     def node(self, state: int, mid: int, progress: int = 0) -> int:
+        if self.live is not None:
+            mid = self.registers.restrict(mid, self.live[state])
         key = (state, mid, progress)
         found = self.ids.get(key)
         if found is None:
@@ -254,9 +270,24 @@ class _Expander:
         final = self.finals.get(True, None) if not recording else None
         if final is None:
             final = self.new(FINAL)
+        self.trim()
         if any_suffix:
             make_any_suffix(self.kinds, self.labels, self.targets, final, n_classes)
         return NFA(tuple(self.kinds), tuple(self.labels), tuple(map(tuple, self.targets)), start, final)
+
+    def trim(self) -> None:
+        """Cut the edges into states from which no final state can be reached (a reference to
+        a group that did not capture, a branch a memory rules out): fewer threads to carry."""
+        back: list[list[int]] = [[] for _ in self.kinds]
+        for s, targets in enumerate(self.targets):
+            for t in targets:
+                back[t].append(s)
+        live = reachable(back, (s for s, kind in enumerate(self.kinds) if kind == FINAL))
+        for s, targets in enumerate(self.targets):
+            if any(t not in live for t in targets):
+                targets[:] = [t for t in targets if t in live]
+                if not targets and self.kinds[s] in (CHAR, ASSERT):
+                    self.kinds[s], self.labels[s] = EPSILON, None
 
     def final(self, outcome: Hashable, recording: bool) -> int:
         key = outcome if recording else True
