@@ -300,3 +300,19 @@ def test_runs_and_nested_optionals_fold_into_one_repeat():
 def test_captured_characters_are_bounded():
     with pytest.raises(StateLimitError, match="different characters"):
         compile_dfa(r"(.)\1", ALPHABETS["bmp"])
+
+
+def test_what_groups_capture_is_bounded_by_the_cap():
+    # (\d{3})\1 must remember one of 1,000 captures: beyond 4 NFA states per allowed state.
+    with pytest.raises(StateLimitError, match="groups capture"):
+        compile_dfa(r"(\d{3})\1", CharSet.range("0", "9"), cap=1000)
+    # {xyxy}: the start, x read (10), xy read (100), xyx read (10: only y is left to check), the end.
+    assert compile_dfa(r"(\d{2})\1", CharSet.range("0", "9")).n_states == 1 + 10 + 100 + 10 + 1
+
+
+def test_a_lookbehind_reading_a_capture_is_tracked_per_capture():
+    digits = CharSet.range("0", "9")
+    with pytest.raises(StateLimitError, match="lookbehind refers to group 1"):
+        compile_dfa(r"(\d{4})-(?<=\1-)", digits | CharSet.single("-"))
+    # (\d)-(?<=\1-): the character before "-" is the one captured, which it is by construction.
+    assert compile_dfa(r"(\d)-(?<=\1-)", digits | CharSet.single("-")) == compile_dfa(r"\d-", digits | CharSet.single("-"))
