@@ -13,7 +13,7 @@ class PfuzzError(Exception):
 
 
 class PatternError(PfuzzError, ValueError):
-    """A pattern pfuzz cannot compile: bad syntax or a construct that is not regular.
+    """A pattern pfuzz cannot compile: bad syntax, or a backreference to a group of unbounded width.
 
     ``position`` is the 0-based index into ``pattern`` (as ``re.error.pos``),
     or None when the error concerns the pattern as a whole; ``lineno`` and
