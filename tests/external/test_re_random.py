@@ -398,3 +398,15 @@ def test_backreference_compares_as_re_does_under_ignorecase():
         for s in strings_upto("sS\u017f\u03c3\u03c2\u03a3", 2):
             assert dfa.accepts(s) == (re.fullmatch(pattern, s) is not None), (pattern, s)
     assert not compile_dfa(r"(?i)(s)\1", letters).accepts("s\u017f")
+
+
+def test_where_sre_leaks_marks_pfuzz_follows_the_form_re_gets_right():
+    # A possessive x{2}+ matches each copy atomically and never gives one back: (?:(?>x)){2}.
+    # CPython 3.11 runs (?:(b)|\1|a){2}+ without restoring the mark its failed (b) set, so the
+    # second copy's \1 reads an empty group (reference: re, on both forms).
+    possessive, atomic = r"(?:(b)|\1|a){2}+", r"(?:(?>(b)|\1|a)){2}"
+    assert re.fullmatch(atomic, "ba") and not re.fullmatch(possessive, "ba")
+    assert sre_leaks_marks(possessive) and not sre_leaks_marks(atomic)
+    letters = CharSet.from_chars("ab")
+    assert compile_dfa(possessive, letters) == compile_dfa(atomic, letters)
+    check_three_modes("ab", atomic)

@@ -25,12 +25,20 @@ product of its lookaheads' automata, as the minimal DFA must.
 ``mode="match"`` / ``"search"`` compile what ``re.match`` / ``re.search``
 accept, as full matches of P(?s:.*) and (?s:.*)P(?s:.*) (see ``in_mode``).
 
+Where CPython 3.11's ``sre`` departs from what its documentation and its own other
+call modes say, pfuzz follows the documented meaning: a possessive repeat runs
+without a repeat context, so the marks a failed alternative set inside it are not
+restored (``re.fullmatch(r"(?:(b)|\\1|a){2}+", "ba")`` is None though ``a`` matches the
+second copy); a conditional inside the group it tests can read the end mark a
+failed attempt left; and ``re.search``'s first-character prefilter ignores a scoped
+``(?a:...)`` (``re.search(r"(?a:\\W)", "à")`` is None while ``re.match`` matches).
+
 Cost: linear in the number of DFA configurations times the classes times the
 threads per configuration; bounded repeats are expanded with nested optionals so
 ``[a-z0-9]{1,256}`` has two threads per configuration (figures on this machine:
 ``python -m pfuzz.benchmarks compile``). Limits: every construction stops at
 ``cap`` states with ``StateLimitError``, the expanded NFA at
-``NFA_STATES_PER_CAP × cap`` states before it is built, the ε-closure work at
+``NFA_STATES_PER_CAP × cap`` states before it is built, the work of the subset construction at
 ``CLOSURE_STEPS_PER_CAP × cap`` steps; a group a backreference reads may capture at
 most ``MAX_CAPTURED_CHARACTERS`` different characters (each needs its own state).
 """
