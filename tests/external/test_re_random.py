@@ -348,7 +348,10 @@ def test_captures_order_and_lookbehind_agree_with_re_in_all_modes(case):
         return  # the grammar can draw what re refuses (a reference to an open group, ...)
     if sre_leaks_marks(pattern):
         return
-    check_three_modes(alphabet, pattern)
+    try:
+        check_three_modes(alphabet, pattern)
+    except SystemError as error:  # sre's own consistency check failed: re gives no answer
+        assert "please report a bug for the re module" in str(error)
 
 
 # Named cases: validator idioms and the constructs whose order of trying matters.
