@@ -25,6 +25,7 @@ from pfuzz.automata.dfa import DEAD, DFA
 from pfuzz.automata.minimise import minimise
 from pfuzz.automata.elimination import DEFAULT_LIMIT
 from pfuzz.base.constants import COUNT_SPAN
+from pfuzz.errors import ArgumentError
 from pfuzz.language import Language
 
 #: Shortest examples listed per side.
@@ -81,7 +82,7 @@ def compare(a: Language, b: Language, *, max_length: int | None = None,
             examples: int = DEFAULT_EXAMPLES, limit: int = DEFAULT_LIMIT) -> Comparison:
     """Summaries of A − B and B − A (``max_length`` bounds the counts per length)."""
     if a.alphabet != b.alphabet:
-        raise ValueError("compare() needs two languages over the same alphabet")
+        raise ArgumentError("compare() needs two languages over the same alphabet")
     return Comparison(summarise(a - b, max_length, examples, limit),
                       summarise(b - a, max_length, examples, limit),
                       a.distinguish(b))
@@ -126,7 +127,7 @@ def verified_pattern(lang: Language, limit: int = DEFAULT_LIMIT) -> tuple[str | 
 def lift(lang: Language, alphabet: CharSet) -> Language:
     """The same language over a wider alphabet (new characters lead to rejection)."""
     if not lang.alphabet.issubset(alphabet):
-        raise ValueError("lift() needs an alphabet that contains the language's alphabet")
+        raise ArgumentError("lift() needs an alphabet that contains the language's alphabet")
     extra = alphabet - lang.alphabet
     if not extra:
         return lang
