@@ -269,3 +269,10 @@ def test_any_text_gives_a_tree_or_a_pattern_error_that_agrees_with_re(text):
             assert "any length" in error.message or "not supported" in error.message, error.message
     else:
         assert re_error is None
+
+
+def test_a_pattern_re_refuses_without_a_position_is_refused_with_re_words():
+    # Found by the fuzz driver: re raises OverflowError (no position) for a repeat count past
+    # its limit, and the rest of the pattern refers to a group that does not exist.
+    with pytest.raises(PatternError, match="repetition number is too large"):
+        parse(r"(?<!x{99999999999}?-\1)a")

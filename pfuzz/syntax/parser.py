@@ -68,6 +68,14 @@ def parse(pattern: str, flags: int = 0) -> Node:
         tree = _finish(parser.pattern(int(flags)), parser.referenced, parser.ordered)
     except RecursionError:
         raise PatternError("pattern nests too deeply", pattern, None) from None
+    except PatternError:
+        raise
+    except (KeyError, IndexError, ValueError):
+        # Only a pattern re itself refused (without a position) can get here: our rules
+        # assume what re checks, e.g. that a referenced group exists.
+        if rejection is None:
+            raise
+        raise rejection from None
     # Where re rejected without a position (variable-width lookbehind, ...), a
     # refusal of ours, raised above, names the construct and its column.
     if rejection is not None:
