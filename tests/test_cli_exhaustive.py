@@ -40,6 +40,7 @@ def test_a_correct_validator_exits_zero_and_says_what_was_tried():
     result = audit("--regex", SPEC, "--exhaustive", "--workers", "0")
     assert result.exit_code == 0, result.output
     assert result.stdout.startswith("evidence: exhaustive over lengths 5..5: every one of 1,440")
+    assert "result: no disagreement in the" in result.stdout
 
 
 def test_too_many_cases_is_refused_before_starting():

@@ -150,7 +150,9 @@ def _lines(document: dict, show: int) -> list[str]:
     for name, seen in sorted(document["exceptions"].items()):
         lines += ["", f"Raised {name} on {seen['count']:,} inputs, e.g. "
                   + ", ".join(json_text(s) for s in seen["inputs"])]
-    verdict = ("the validator agrees with the specification on every case of the window"
+    tried = document["cases"]["valid"] + document["cases"]["near_misses"]
+    verdict = (f"no disagreement in the {tried:,} cases of the exhaustive window "
+               "(what that covers is the evidence line above)"
                if document["agrees"] else "the validator disagrees with the specification "
                "(the findings are above)")
     lines += ["", f"result: {verdict}"]
