@@ -56,7 +56,7 @@ def pattern_of(dfa: DFA, limit: int | None = None) -> str | None:
     algebra = Algebra(dfa.alphabet, work_limit=max(limit, 64) * WORK_FACTOR, budget=WORK_BUDGET)
     try:
         text = algebra.polish(eliminate(dfa, algebra)).text
-    except TooLarge:
+    except (TooLarge, RecursionError):  # nested too deeply to write is too large to show
         return None
     return text if len(text) <= limit else None
 
