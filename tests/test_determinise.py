@@ -68,12 +68,56 @@ def test_threads_at_the_final_state_become_the_accepting_flag(recorded):
         assert dfa.accepts(s) == bool(rx.fullmatch(s)), s
 
 
-def test_plain_threads_take_the_subset_step(recorded):
-    compile_dfa(r"(a|b)*a(a|b){3}", CharSet.range("a", "b"))
-    assert all(len(config) == 3 and config[2][0] == NO_OBLIGATIONS
-               for _, config in recorded if len(config) > 2)
-    runner = recorded[0][0]
-    assert not any(moves.moved for moves in runner.tables.values())  # no memo: plain sets step directly
+BIT_PARALLEL_CASES = [(r"(a|b)*a(a|b){3}", "fullmatch"), (r"a{2,5}", "fullmatch"), (r"(ab|a)*b?", "fullmatch"),
+                      (r"", "fullmatch"), (r"a*", "search"), (r"(?:a?b?){5}", "fullmatch"),
+                      (r"[ab]{0,3}c", "match"), (r"ab{2}", "search"), (r"(a|bc)+", "match"),
+                      (r"(?:(a)|b)\1?c", "fullmatch")]
+
+
+@pytest.mark.parametrize("pattern, mode", BIT_PARALLEL_CASES)
+def test_assertion_free_patterns_take_the_bit_parallel_path(recorded, monkeypatch, pattern, mode):
+    from pfuzz.automata.construction import bitsets
+
+    fast = compile_dfa(pattern, LETTERS, mode=mode)
+    assert not recorded  # no configuration went through the general step
+    monkeypatch.setattr(bitsets, "applies", lambda nfa: False)
+    assert compile_dfa(pattern, LETTERS, mode=mode) == fast  # the same canonical minimal DFA
+    call = getattr(re.compile(pattern), mode)  # reference: re in the same mode
+    for s in strings_upto("abc", 5):
+        assert fast.accepts(s) == bool(call(s)), s
+
+
+def test_moves_of_many_word_operations_take_the_sets(monkeypatch, recorded):
+    from pfuzz.automata.construction import bitsets
+
+    pattern = r"x.{0,40}y"  # the exits of the 40 nested optional copies share one target group
+    fast = compile_dfa(pattern, LETTERS | CharSet.from_chars("xy"))
+    assert not recorded
+    monkeypatch.setattr(bitsets, "MAX_GROUPS", 1)
+    assert compile_dfa(pattern, LETTERS | CharSet.from_chars("xy")) == fast
+    assert recorded  # the set-based path built it
+
+
+def test_the_bit_parallel_path_meets_the_state_cap_and_budget():
+    with pytest.raises(StateLimitError, match="state cap"):
+        compile_dfa(r"(a|b)*a(a|b){12}", CharSet.range("a", "b"), cap=4_000)
+    # A search for .{n}: configuration k holds k threads; the budget counts their words.
+    assert compile_dfa(r".{3000}", CharSet.range("a", "b"), mode="search").n_states == 3001
+
+
+def test_a_large_nfa_takes_the_bits_when_sets_run_out_of_budget(monkeypatch, recorded):
+    from pfuzz.automata.construction import bitsets
+
+    monkeypatch.setattr(bitsets, "BIT_STATES", 100)
+    # As sets, the search costs about 300²/2 = 45,000 steps, past the budget of 16 × 1,000.
+    dfa = compile_dfa(r".{300}", CharSet.range("a", "b"), mode="search", cap=1_000)
+    assert recorded  # the set-based path ran first
+    assert dfa.n_states == 301  # strings of 300 characters or more: a chain of 301 states
+    for n in (0, 299, 300, 301, 450):
+        text = "ab" * (n // 2) + "a" * (n % 2)
+        assert dfa.accepts(text) == bool(re.search(r".{300}", text)), n  # reference: re.search
+    with pytest.raises(StateLimitError, match="work budget"):  # both ways over budget: refused
+        compile_dfa(r"(?:a?b?){150}", CharSet.from_chars("ab"), mode="search", cap=2_000)
 
 
 def test_a_memoryless_look_back_is_not_stored_in_configurations(recorded):

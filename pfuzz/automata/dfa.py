@@ -163,12 +163,14 @@ def explore(
     classes: Iterable[CharSet],
     alphabet: CharSet,
     cap: int = DEFAULT_STATE_CAP,
+    weigh: Optional[Callable[[Hashable], None]] = None,
 ) -> DFA:
     """Build the DFA reachable from ``start`` (subset construction, generalised).
 
     ``step(config, class_index)`` returns the next configuration or None for
     the dead state. Configurations must be hashable; equal ones become one
-    state. Raises ``StateLimitError`` past ``cap`` states.
+    state. Raises ``StateLimitError`` past ``cap`` states. ``weigh``, when
+    given, is called with each new configuration (it may raise to stop).
     """
     classes = tuple(classes)
     k = len(classes)
@@ -186,6 +188,8 @@ def explore(
             if j is None:
                 j = number[nxt] = len(configs)
                 configs.append(nxt)
+                if weigh is not None:
+                    weigh(nxt)
                 if j >= cap:
                     raise StateLimitError(
                         f"the automaton needs more than {cap:,} states (the state cap); "

@@ -31,6 +31,7 @@ from dataclasses import dataclass
 from typing import Hashable
 
 from pfuzz.automata.algebra import complement
+from pfuzz.automata.construction import bitsets
 from pfuzz.automata.construction.determinise import Determiniser
 from pfuzz.automata.construction.lookback import (AFTER_ASCII_WORD, AFTER_NEWLINE, AFTER_WORD, AT_START,
                                                   LookBack, Tracker, scan)
@@ -54,6 +55,10 @@ MAX_LOOKBEHIND_MEMORIES = 4096
 
 ANYTHING = Repeat(Chars(ALL), 0, None)
 _MISSING = object()
+
+
+class _OverBudget(StateLimitError):
+    """The work budget ran out (the state cap did not)."""
 
 
 def _always(memory: int) -> bool:
@@ -147,14 +152,32 @@ class Compilation:
         return self.determinise(nfa, lookback, back)
 
     def determinise(self, nfa: NFA, lookback: LookBack, back: int) -> DFA:
+        """The minimal DFA of ``nfa``: bit-parallel where it has no assertions and the bits
+        are cheaper (``bitsets``), or where the set-based construction runs out of budget."""
         runner = Determiniser(self, nfa, lookback)
-        start = runner.start(back) or runner.dead
-        return minimise(explore(start, runner.step, runner.is_accepting, self.classes, self.alphabet, self.cap))
+        plain = bitsets.applies(nfa)
+        found = plain and bitsets.explore_bits(runner, self.classes, self.alphabet, self.cap, back)
+        if found:
+            return minimise(found)
+        spent = self.spent
+        try:
+            start = runner.start(back) or runner.dead
+            return minimise(explore(start, runner.step, runner.is_accepting, self.classes, self.alphabet,
+                                    self.cap))
+        except _OverBudget:
+            if not plain:
+                raise
+            self.spent = spent  # the budget again, for the other way
+            found = bitsets.explore_bits(Determiniser(self, nfa, lookback), self.classes, self.alphabet,
+                                         self.cap, back, first=False)
+            if not found:
+                raise
+        return minimise(found)
 
     def charge(self, steps: int) -> None:
         self.spent += steps
         if self.spent > self.budget:
-            raise StateLimitError(
+            raise _OverBudget(
                 f"building the automaton took more than {self.budget:,} steps of subset construction, "
                 f"the work budget ({CLOSURE_STEPS_PER_CAP} per state of the state cap): nested optional "
                 "repeats such as (?:a?b?){1000}, or a search for a long counted repeat, make every "
