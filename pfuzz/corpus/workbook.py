@@ -76,15 +76,22 @@ def available() -> bool:
 
 def visible_text(text: str) -> str:
     """``text`` with whitespace and invisible characters shown as signs or escapes."""
+    return _LOOKED_AT.sub(_visible, text) or "(empty)"
+
+
+_LOOKED_AT = re.compile("[^!-~]+")  # visible ASCII stays as it is
+
+
+def _visible(match: re.Match) -> str:
     out = []
-    for ch in text:
+    for ch in match.group():
         if ch in _SHOWN:
             out.append(_SHOWN[ch])
         elif ch.isprintable() and not unicodedata.category(ch).startswith(("Z", "C")):
             out.append(ch)
         else:
-            out.append(escape_text(ch) if ch != "\\" else ch)
-    return "".join(out) or "(empty)"
+            out.append(escape_text(ch))
+    return "".join(out)
 
 
 def _cell_text(text: str) -> str:
