@@ -62,11 +62,12 @@ def _best_ms(pattern: str, alphabet, runs: int, mode: str = "fullmatch") -> tupl
 
 
 #: Large automata, each in a fresh process so that its peak memory is its own:
-#: (label, pattern, alphabet). The last one must stop at the state cap.
+#: (label, pattern, alphabet, mode). The one marked so must stop at the state cap.
 LARGE = [
-    ("(a|b)*a(a|b){16}", FAMILY % 16, "[ab]"),
-    ("hostname (RFC 1123, 253 total)", HOSTNAME, "printable"),
-    ("(a|b)*a(a|b){30}: state cap", FAMILY % 30, "[ab]"),
+    ("(a|b)*a(a|b){16}", FAMILY % 16, "[ab]", "fullmatch"),
+    ("hostname (RFC 1123, 253 total)", HOSTNAME, "printable", "fullmatch"),
+    ("(a|b)*a(a|b){30}: state cap", FAMILY % 30, "[ab]", "fullmatch"),
+    (".{8000}, search", ".{8000}", "printable", "search"),
 ]
 
 _LARGE = """
@@ -76,7 +77,7 @@ from pfuzz.syntax.alphabet import resolve_alphabet
 alphabet = resolve_alphabet(sys.argv[2])
 start = time.process_time()
 try:
-    result["states"] = compile_dfa(sys.argv[1], alphabet).n_states
+    result["states"] = compile_dfa(sys.argv[1], alphabet, mode=sys.argv[3]).n_states
 except StateLimitError:
     result["states"] = "cap"
 result["compile_s"] = time.process_time() - start
@@ -86,8 +87,8 @@ result["compile_s"] = time.process_time() - start
 def large_rows(quick: bool) -> list[dict]:
     """Compile CPU time of the large automata, peak memory of the whole process beside it."""
     rows = []
-    for label, pattern, alphabet in LARGE:
-        figures = measure(_LARGE, pattern, alphabet)
+    for label, pattern, alphabet, mode in LARGE:
+        figures = measure(_LARGE, pattern, alphabet, mode)
         rows.append({"pattern": label, "alphabet": alphabet, "states": figures["states"],
                      "ms": f"{figures['compile_s'] * 1000:.1f}",
                      "peak_rss_mb": f"{figures['peak_rss_mb']:.0f}"})

@@ -38,8 +38,9 @@ __all__ = ["chunk_size", "uniform_draws", "walk_all"]
 
 #: Characters one chunk may hold (bounds the working memory whatever the lengths).
 CHUNK_CHARACTERS = 1 << 21
-#: Most samples walked together.
-CHUNK = 1 << 16
+#: Most samples walked together: 2^14 keeps a chunk's columns in a core's cache (median bulk
+#: ratio of the date pattern 0.80 at 2^16, 0.69-0.74 at 2^14 and 2^15, on the machine of the benchmarks).
+CHUNK = 1 << 14
 #: The characters ``str.splitlines`` splits at, besides the newline.
 LINE_BREAKS = "\n\r\x0b\x0c\x1c\x1d\x1e\x85\u2028\u2029"
 
@@ -85,8 +86,10 @@ class _Chunk:
             self.buffer[:] = _uniform_characters(t, top, len(self.buffer), generator)
             self.buffer[self.ends] = self.separator
             return self.buffer
+        self.matrix = None
         if lengths[0] == lengths[-1] and lengths.min() == top:
             self.sorted_lengths, self.position = lengths, self.ends
+            self.matrix = self.buffer.reshape(-1, top + 1)  # one length: level r is a column
         else:
             key = -lengths if top >= 2**15 else (-lengths).astype(np.int16)  # int16: radix sort
             order = np.argsort(key, kind="stable")
@@ -116,7 +119,10 @@ class _Chunk:
         else:
             chosen = at if kind == STRAIGHT else _choose(t, at, generator)
             chars = _edge_characters(t, chosen, generator)
-        self.buffer[self.position[:m] - remaining] = chars
+        if self.matrix is not None:
+            self.matrix[:, -1 - remaining] = chars
+        else:
+            self.buffer[self.position[:m] - remaining] = chars
         here[:m] = np.take(t.next_base, chosen)
         return here
 
