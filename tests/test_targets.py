@@ -266,3 +266,38 @@ def test_regex_target_verdicts_and_errors():
         RegexTarget("(")
     with pytest.raises(TargetError, match="--mode"):
         RegexTarget("a", "findall")
+
+
+CATASTROPHIC = r"(a+)+$"  # exponential backtracking in re on a run of a's that does not match
+
+
+def test_a_regex_that_backtracks_for_ever_hits_the_timeout():
+    target = RegexTarget(CATASTROPHIC, timeout=0.3)
+    assert target.ask(["aaa", "ab"]) == [True, False]  # reference: re.fullmatch
+    started = time.monotonic()
+    with pytest.raises(TargetError, match=r"did not finish within 0.3 s on \"a{30}b\""):
+        target.verdicts(["aa", "a" * 30 + "b"])
+    assert time.monotonic() - started < 10
+
+
+def test_the_regex_deadline_keeps_a_timer_already_running():
+    import signal
+
+    class Outer(Exception):
+        pass
+
+    def outer(number, frame):
+        raise Outer()
+
+    previous = signal.signal(signal.SIGALRM, outer)
+    try:
+        signal.setitimer(signal.ITIMER_REAL, 5.0)
+        RegexTarget(r"\d+").verdicts(["12", "x"])
+        left, _ = signal.getitimer(signal.ITIMER_REAL)
+        assert 0 < left <= 5.0 and signal.getsignal(signal.SIGALRM) is outer
+        signal.setitimer(signal.ITIMER_REAL, 0.3)  # the outer timer is due before the round's
+        with pytest.raises(Outer):
+            RegexTarget(CATASTROPHIC, timeout=30).verdicts(["a" * 30 + "b"])
+    finally:
+        signal.setitimer(signal.ITIMER_REAL, 0)
+        signal.signal(signal.SIGALRM, previous)

@@ -27,7 +27,9 @@ managers; ``close()`` ends the process and everything it started.
   shell; no shell features: wrap pipes in ``sh -c '...'``) in a session of its
   own, under the round protocol below.
 - ``RegexTarget(pattern, mode)`` calls Python's ``re`` in the mode the user's
-  code uses (``fullmatch``, ``match`` or ``search``) and also offers the exact
+  code uses (``fullmatch``, ``match`` or ``search``), in this process under the
+  timeout per round (a timer signal: ``sre`` checks for signals as it
+  backtracks, so a pattern such as ``(a+)+$`` cannot hang an audit), and also offers the exact
   language of that call, compiled by ``pfuzz.compile(..., mode=...)``, which
   keeps the meaning of anchors inside R (unlike the language L(R)·U*).
 
@@ -55,8 +57,10 @@ import json
 import os
 import re
 import shlex
+import signal
 import sys
 import tempfile
+import threading
 import time
 from dataclasses import dataclass
 from pathlib import Path
@@ -147,6 +151,40 @@ def _timeout(seconds: float) -> float:
 def _quote(text: str) -> str:
     shown = text if len(text) <= 60 else text[:59] + "\u2026"
     return json.dumps(shown, ensure_ascii=False)
+
+
+class _RegexTimeout(Exception):
+    """The deadline of a round of ``re`` calls passed."""
+
+
+@contextlib.contextmanager
+def _deadline(seconds: float):
+    """Raise ``_RegexTimeout`` in the block after ``seconds`` (``sre`` checks for signals while
+    it backtracks). Only in the main thread of a system with ``setitimer`` (elsewhere, as on
+    a Dask worker's threads, no deadline); a timer already running is kept and fires as
+    it would have."""
+    if threading.current_thread() is not threading.main_thread() or not hasattr(signal, "setitimer"):
+        yield
+        return
+    started = time.monotonic()
+    outer_handler = signal.getsignal(signal.SIGALRM)
+    outer_delay, outer_interval = signal.getitimer(signal.ITIMER_REAL)
+
+    def alarm(number, frame):
+        if outer_delay and time.monotonic() - started >= outer_delay and callable(outer_handler):
+            outer_handler(number, frame)  # the outer timer's turn came first
+        raise _RegexTimeout()
+
+    signal.signal(signal.SIGALRM, alarm)
+    signal.setitimer(signal.ITIMER_REAL, min(seconds, outer_delay) if outer_delay else seconds)
+    try:
+        yield
+    finally:
+        signal.setitimer(signal.ITIMER_REAL, 0)
+        signal.signal(signal.SIGALRM, outer_handler)
+        if outer_delay:
+            left = outer_delay - (time.monotonic() - started)
+            signal.setitimer(signal.ITIMER_REAL, max(left, 1e-6), outer_interval)
 
 
 # -- Python functions ---------------------------------------------------------------
@@ -362,22 +400,31 @@ def _verdict(line: bytes, number: int) -> Verdict:
 # -- regular expressions --------------------------------------------------------------
 
 class RegexTarget(Target):
-    """A Python ``re`` pattern called as ``re.<mode>(pattern, text)``."""
+    """A Python ``re`` pattern called as ``re.<mode>(pattern, text)``; a round that runs past
+    ``timeout`` seconds (catastrophic backtracking) is a ``TargetError`` (see ``_deadline``)."""
 
-    def __init__(self, pattern: str, mode: str = "fullmatch"):
+    def __init__(self, pattern: str, mode: str = "fullmatch", timeout: float = DEFAULT_TIMEOUT):
         if mode not in CALL_MODES:
             raise TargetError(f"--mode must be one of {', '.join(CALL_MODES)}, not {mode!r}")
         try:
             compiled = re.compile(pattern)
         except (re.error, OverflowError) as error:    # OverflowError: a count past 2**32 - 1
             raise TargetError(f"--regex is not a Python regular expression: {error}") from None
-        self.pattern, self.mode = pattern, mode
+        self.pattern, self.mode, self.timeout = pattern, mode, _timeout(timeout)
         self.label = f"re.{mode}({pattern!r})"
         self._call = getattr(compiled, mode)
 
     def verdicts(self, texts: Sequence[str]) -> list[Verdict]:
-        call = self._call
-        return [REJECTED if call(text) is None else ACCEPTED for text in texts]
+        call, found = self._call, []
+        try:
+            with _deadline(self.timeout):
+                for text in texts:
+                    found.append(REJECTED if call(text) is None else ACCEPTED)
+        except _RegexTimeout:
+            raise TargetError(f"re.{self.mode} did not finish within {self.timeout:g} s on "
+                              f"{_quote(texts[len(found)])} (catastrophic backtracking?); "
+                              "use --timeout to allow more") from None
+        return found
 
     def language(self, alphabet, state_cap: int | None = None):
         """The exact language this call accepts over ``alphabet`` (a PatternError if not regular;

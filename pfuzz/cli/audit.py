@@ -59,8 +59,8 @@ from .common import FilePath
               help="Exceptions that mean reject besides ValueError (builtin or dotted names); "
                    "any other exception a --target raises is a finding.")
 @click.option("--timeout", type=click.FloatRange(min=0, min_open=True), default=DEFAULT_TIMEOUT,
-              show_default=True, help="Seconds a --target or --cmd validator may take to answer "
-                                      "one round of strings.")
+              show_default=True, help="Seconds a validator (--target, --cmd or --regex) may take "
+                                      "to answer one round of strings.")
 @click.option("--no-learn", is_flag=True,
               help="Do not learn a model of a --target or --cmd validator.")
 @click.option("--learn-queries", type=click.IntRange(min=1), default=DEFAULT_MAX_QUERIES,
@@ -231,7 +231,7 @@ def _target(python_target, command, regex, mode, timeout, reject_on):
                                 reject_on=parse_exception_names(reject_on))
         if command is not None:
             return CommandTarget(command, timeout)
-        return RegexTarget(regex, mode)
+        return RegexTarget(regex, mode, timeout)
     except TargetError as error:
         fail(str(error), error.detail)
 

@@ -56,7 +56,7 @@ def target_factory(python_target, command, regex, mode, timeout, reject_on):
                                  reject_on=parse_exception_names(reject_on))
     if command is not None:
         return functools.partial(CommandTarget, command, timeout)
-    return functools.partial(RegexTarget, regex, mode)
+    return functools.partial(RegexTarget, regex, mode, timeout)
 
 
 def run_exhaustive_audit(spec, label, make_target, *, distance, reject_alphabet, min_length,
