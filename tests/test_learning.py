@@ -286,7 +286,7 @@ def test_cli_json_and_exit_0_for_a_correct_validator():
 def test_cli_needs_one_validator_and_one_specification():
     assert run("--pattern", "a").exit_code == 2
     assert run("--regex", "a").exit_code == 2
-    result = run("--pattern", "a", "--regex", "a", "--max-queries", "0")
+    result = run("--pattern", "a", "--regex", "a", "--learn-queries", "0")
     assert result.exit_code == 2 and "Traceback" not in result.output
 
 

@@ -25,6 +25,26 @@ from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, form
 from .common import FilePath
 
 
+def learning_options(command):
+    """The limits of learning a model of the validator, shared by ``audit`` and ``learn``."""
+    options = [
+        click.option("--learn-queries", type=click.IntRange(min=1), default=DEFAULT_MAX_QUERIES,
+                     show_default=True, help="Most strings learning may ask the validator."),
+        click.option("--learn-states", type=click.IntRange(min=1), default=DEFAULT_MAX_STATES,
+                     show_default=True, help="Most states the learned model may grow to."),
+        click.option("--learn-seconds", type=click.FloatRange(min=0, min_open=True), default=None,
+                     help="Most seconds learning may take (default: no limit but the queries)."),
+        click.option("--extra-states", type=click.IntRange(min=0), default=DEFAULT_EXTRA_STATES,
+                     show_default=True, help="Test the learned model to this many states beyond its own."),
+        click.option("--interior-probes", type=click.IntRange(min=0), default=DEFAULT_INTERIOR_PROBES,
+                     show_default=True, help="Characters tried inside each symbol class besides its "
+                                             "range ends."),
+    ]
+    for option in reversed(options):
+        command = option(command)
+    return command
+
+
 @click.command("audit")
 @click.argument("profile", required=False, type=FilePath(dir_okay=False, path_type=Path))
 @click.option("--pattern", "-p", help="The specification as a pattern (instead of a PROFILE).")
@@ -63,17 +83,7 @@ from .common import FilePath
                                       "to answer one round of strings.")
 @click.option("--no-learn", is_flag=True,
               help="Do not learn a model of a --target or --cmd validator.")
-@click.option("--learn-queries", type=click.IntRange(min=1), default=DEFAULT_MAX_QUERIES,
-              show_default=True, help="Most strings learning may ask.")
-@click.option("--learn-states", type=click.IntRange(min=1), default=DEFAULT_MAX_STATES,
-              show_default=True, help="Most states the learned model may grow to.")
-@click.option("--learn-seconds", type=click.FloatRange(min=0, min_open=True), default=None,
-              help="Most seconds learning may take (default: no limit but the queries).")
-@click.option("--extra-states", type=click.IntRange(min=0), default=DEFAULT_EXTRA_STATES,
-              show_default=True, help="Test the learned model to this many states beyond its own.")
-@click.option("--interior-probes", type=click.IntRange(min=0), default=DEFAULT_INTERIOR_PROBES,
-              show_default=True,
-              help="Characters tried inside each symbol class besides its range ends.")
+@learning_options
 @seed_option
 @click.option("--show", type=click.IntRange(min=0), default=DEFAULT_SHOW, show_default=True,
               help="Disagreements listed one by one per group; larger groups are summarised.")

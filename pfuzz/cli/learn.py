@@ -14,11 +14,10 @@ from pfuzz.base.charset import CharSet
 from pfuzz.base.constants import CALL_MODES
 from pfuzz.base.jsonlines import json_text
 from pfuzz.errors import TargetError
-from pfuzz.learning import (DEFAULT_EXTRA_STATES, DEFAULT_INTERIOR_PROBES, DEFAULT_MAX_QUERIES,
-                            DEFAULT_MAX_STATES, learn as learn_model)
+from pfuzz.learning import learn as learn_model
 from pfuzz.learning.model import BUDGET_WORDS
 from pfuzz.syntax.alphabet import resolve_alphabet
-from .audit import _target
+from .audit import _target, learning_options
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, fail, format_option,
                      language_options, out_option, read_pattern_file, report_errors, seed_option)
 from .common import FilePath
@@ -46,17 +45,9 @@ from .diff import quote, side_lines
 @click.option("--reject-on", metavar="TYPE,...",
               help="Exceptions of a --target that mean reject besides ValueError.")
 @click.option("--timeout", type=click.FloatRange(min=0, min_open=True), default=DEFAULT_TIMEOUT,
-              show_default=True, help="Seconds a --target or --cmd may take for one round.")
-@click.option("--max-queries", type=click.IntRange(min=1), default=DEFAULT_MAX_QUERIES,
-              show_default=True, help="Most strings the validator may be asked.")
-@click.option("--max-states", type=click.IntRange(min=1), default=DEFAULT_MAX_STATES,
-              show_default=True, help="Most states the model may grow to.")
-@click.option("--max-seconds", type=click.FloatRange(min=0, min_open=True), default=None,
-              help="Most seconds learning may take (default: no limit but the others).")
-@click.option("--extra-states", type=click.IntRange(min=0), default=DEFAULT_EXTRA_STATES,
-              show_default=True, help="Test the model to this many states beyond its own.")
-@click.option("--interior-probes", type=click.IntRange(min=0), default=DEFAULT_INTERIOR_PROBES,
-              show_default=True, help="Characters tried inside each class besides its range ends.")
+              show_default=True, help="Seconds a validator (--target, --cmd or --regex) may take "
+                                      "to answer one round of strings.")
+@learning_options
 @seed_option
 @click.option("--examples", type=click.IntRange(min=0), default=DEFAULT_EXAMPLES,
               show_default=True, help="Shortest strings to list for each difference.")
@@ -64,7 +55,7 @@ from .diff import quote, side_lines
 @out_option
 @report_errors
 def learn(pattern, pattern_file, python_target, command, regex, mode, alphabet, flags, state_cap,
-          extra_alphabet, no_hostile, reject_on, timeout, max_queries, max_states, max_seconds,
+          extra_alphabet, no_hostile, reject_on, timeout, learn_queries, learn_states, learn_seconds,
           extra_states, interior_probes, seed, examples, fmt, out):
     """Learn the language a validator accepts, by asking it, and compare it with a --pattern.
 
@@ -93,8 +84,8 @@ def learn(pattern, pattern_file, python_target, command, regex, mode, alphabet, 
         with target:
             model = learn_model(target.ask, spec, alphabet=wider, extra_characters=hostile,
                                 interior_probes=interior_probes, extra_states=extra_states,
-                                max_queries=max_queries, max_states=max_states,
-                                max_seconds=max_seconds, seed=seed)
+                                max_queries=learn_queries, max_states=learn_states,
+                                max_seconds=learn_seconds, seed=seed)
     except TargetError as error:
         fail(f"the validator {target.label} could not be asked: {error}", error.detail)
     sides = (summarise(model.wrongly_accepted, examples=examples),
