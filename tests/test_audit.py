@@ -294,6 +294,23 @@ def test_learned_differences_are_confirmed_findings():
                                  for t in side.examples)
 
 
+def test_a_model_the_validator_contradicts_is_learned_again():
+    # With no valid samples, every case with a lower-case letter also holds an upper-case one, so
+    # the validator (re.fullmatch("[a-z]{3,12}") without the case flag) accepts none of them and
+    # the first model is empty; strings sampled from its differences (all lower case) refute it.
+    report = audit("(?i)[a-z]{3,12}", "planted:vessel_missing_case_flag",
+                   settings=Settings(valid=0, rejects=50))
+    learned = report.learned
+    assert learned.sampled and not learned.contradicted
+    # reference, by counting: 52**n strings of n letters, of which the 26**n all lower-case ones
+    # are accepted by the validator
+    assert learned.wrongly_rejected.total == sum(52 ** n - 26 ** n for n in range(3, 13))
+    assert learned.wrongly_accepted.empty
+    for text in learned.sampled:  # reference: re.fullmatch, the validator's own call
+        assert learned.model.model.accepts(text) == bool(re.fullmatch("[a-z]{3,12}", text))
+    assert report.evidence.basis == "learned" and "only under the model's guarantee" in report.evidence.sentence
+
+
 def test_a_large_group_is_summarised_by_its_difference_language():
     spec = "(?i)[a-z]{3,12}"
     report = audit(spec, "planted:vessel_missing_case_flag", settings=Settings(valid=1000, rejects=200))
@@ -348,14 +365,15 @@ def test_a_learned_model_is_the_evidence_only_where_the_answers_bear_it_out():
 
     from pfuzz.audit.evidence import evidence_of
 
-    def report(equal: bool, wrong: int):
+    def report(equal: bool, wrong: int, contradicted=()):
         model = SimpleNamespace(equals_specification=equal, states=3, queries=10,
                                 conformance_depth=1, guarantee=lambda: "exact, provided ...")
         empty = SimpleNamespace(empty=True, total=0, counts={})
         return SimpleNamespace(case_counts=lambda: (5, 7), raised=SimpleNamespace(unexpected=0),
                                findings=[object()] * wrong, exact=None,
                                learned=SimpleNamespace(model=model, wrongly_accepted=empty,
-                                                       wrongly_rejected=empty))
+                                                       wrongly_rejected=empty, sampled=("x", "y"),
+                                                       contradicted=contradicted))
 
     assert evidence_of(report(True, 0)).basis == "learned"
     assert evidence_of(report(False, 2)).basis == "learned"
@@ -366,3 +384,7 @@ def test_a_learned_model_is_the_evidence_only_where_the_answers_bear_it_out():
     assert unconfirmed.basis == "cases" and unconfirmed.sentence.startswith(
         "agreement on 5 deterministic and 7 sampled cases (not a proof")
     assert "confirmed none of its differences" in unconfirmed.sentence
+    assert "only under the model's guarantee: exact, provided" in evidence_of(report(False, 2)).sentence
+    refuted = evidence_of(report(False, 2, contradicted=("x",)))
+    assert refuted.basis == "cases" and "answered 1 of 2 strings sampled from the model's differences " \
+        "unlike the model" in refuted.sentence

@@ -14,8 +14,10 @@ Every audit ends with its evidence, the strongest it has, in one of four forms:
 
 The learned model is the evidence only where the validator's answers bear it
 out: a model equal to the specification while some case disagrees (learning
-stopped by a budget), or a model that differs while no string the validator
-answered confirms it, leaves the cases as the evidence, with a remark.
+stopped by a budget), a model that differs while no string the validator
+answered confirms it, or a model the validator contradicts on a string drawn
+from its differences, leaves the cases as the evidence, with a remark. A model
+that differs gives its counts under its guarantee, which the sentence states.
 Unexpected exceptions are added to every form.
 """
 
@@ -60,10 +62,16 @@ def evidence_of(report) -> Evidence:
     if report.exact is not None:
         return Evidence("exact", _exact(report) + also)
     learned = report.learned
-    if learned is not None and learned.model.equals_specification != bool(wrong):
+    refuted = learned is not None and bool(learned.contradicted)
+    if learned is not None and not refuted and learned.model.equals_specification != bool(wrong):
         return Evidence("learned", _learned(report, tried) + also)
     if learned is None:
         unused = ""
+    elif refuted:
+        n, m = len(learned.contradicted), len(learned.sampled)
+        unused = (f"; a learned model is not the evidence: the validator answered {n:,} of {m:,} "
+                  "strings sampled from the model's differences unlike the model, so the model is "
+                  "wrong there")
     elif wrong:
         unused = "; the learned model, which equals the specification, missed them"
     else:
@@ -100,8 +108,11 @@ def _learned(report, tried: str) -> str:
         return (f"a learned model of the validator ({states}) equals the specification, {tested} "
                 f"({queries}, the {tried} among the tests); guarantee: {model.guarantee()}")
     wrong = len(report.findings)
+    sampled = len(learned.sampled)
     return (f"a learned model of the validator ({states}, {queries}) differs from the "
-            f"specification: it wrongly accepts {describe_side(learned.wrongly_accepted)} and "
+            f"specification: the model wrongly accepts {describe_side(learned.wrongly_accepted)} and "
             f"wrongly rejects {describe_side(learned.wrongly_rejected)}; {wrong:,} string"
             f"{'' if wrong == 1 else 's'} the validator answered confirm{'s' if wrong == 1 else ''} "
-            f"it ({tried} were tried)")
+            f"it ({tried} were tried, and {sampled:,} string{'' if sampled == 1 else 's'} sampled "
+            f"from the model's differences all answered as the model says); the counts are the "
+            f"validator's only under the model's guarantee: {model.guarantee()}")

@@ -9,8 +9,14 @@ extra tests; every exception a query raises is logged with the cases' own
 alphabet, with the single hostile characters (line ends, blanks, the byte order
 mark) as classes of their own.
 
-After learning, the two difference languages (model − specification: wrongly
-accepted; specification − model: wrongly rejected) are summarised exactly
+After learning, the model's claims are tested: up to ``SAMPLED_DIFFERENCES``
+strings drawn uniformly by length from each difference language are asked of
+the validator, and where it answers one unlike the model (the model is wrong
+there: a validator outside the guarantee's conditions, such as one that tells
+apart characters the model took as one class), the model is learned again with
+those strings among its tests. A model still contradicted is not the audit's
+evidence (``pfuzz.audit.evidence``). The two difference languages (model −
+specification: wrongly accepted; specification − model: wrongly rejected) are summarised exactly
 (``pfuzz.audit.comparison.summarise``: counts per length, shortest members, a
 pattern by state elimination). The learner's confirmed differences and the
 shortest members of each difference language are asked of the validator once
@@ -23,10 +29,12 @@ Cost: the learner's (its budgets bound queries, states and time; see
 
 from __future__ import annotations
 
+import warnings
 from dataclasses import dataclass
 
 from pfuzz.audit.comparison import DEFAULT_EXAMPLES, Side, summarise
 from pfuzz.audit.findings import RaisedLog
+from pfuzz.errors import PfuzzWarning
 from pfuzz.language import Language
 
 __all__ = ["LearningSettings", "Learned", "learn_validator", "HOSTILE_SINGLES"]
@@ -61,19 +69,30 @@ class LearningSettings:
         return {**out, "max_seconds": self.max_seconds}
 
 
+#: Strings drawn uniformly (by length) from each difference of the model, to test its claims.
+SAMPLED_DIFFERENCES = 16
+#: Times the model is learned again when the validator contradicts a sampled difference.
+RELEARN_ROUNDS = 3
+
+
 @dataclass(frozen=True)
 class Learned:
-    """A learned model and its difference languages, summarised."""
+    """A learned model and its difference languages, summarised; ``sampled`` are strings drawn
+    from those differences and asked of the validator, ``contradicted`` the ones it answered
+    unlike the model (the model is wrong there, whatever its guarantee says)."""
 
     model: object            #: ``pfuzz.learning.LearnedModel``
     wrongly_accepted: Side
     wrongly_rejected: Side
+    sampled: tuple[str, ...] = ()
+    contradicted: tuple[str, ...] = ()
 
     def as_dict(self) -> dict:
         """The model and its differences; without the time it took (same seed, same report)."""
         model = {k: v for k, v in self.model.as_dict().items() if k != "seconds"}
         return {**model, "wrongly_accepted": self.wrongly_accepted.as_dict(),
-                "wrongly_rejected": self.wrongly_rejected.as_dict()}
+                "wrongly_rejected": self.wrongly_rejected.as_dict(),
+                "differences_sampled": len(self.sampled), "contradicted_by": list(self.contradicted)}
 
 
 class _Asker:
@@ -93,19 +112,42 @@ class _Asker:
 
 def learn_validator(spec: Language, target, cases, verdicts, alphabet, settings: LearningSettings,
                     seed: int, log: RaisedLog) -> Learned:
-    """Learn the validator's automaton over ``alphabet`` (the audit alphabet)."""
+    """Learn the validator's automaton over ``alphabet`` (the audit alphabet), then test the
+    model's claims on strings drawn from its differences; where the validator contradicts
+    one, learn again with those strings among the tests (at most ``RELEARN_ROUNDS`` times)."""
     from pfuzz.audit.comparison import lift
     from pfuzz.learning import learn
 
     known = {c.text: v.accepted for c, v in zip(cases, verdicts)}
     asker = _Asker(target, known, lift(spec, alphabet), log)
-    model = learn(asker, spec, alphabet=alphabet, extra_characters=HOSTILE_SINGLES,
-                  extra_tests=[c.text for c in cases], seed=seed, **settings.options())
-    return Learned(model, summarise(model.wrongly_accepted), summarise(model.wrongly_rejected))
+    tests = [c.text for c in cases]
+    for round_ in range(RELEARN_ROUNDS + 1):
+        model = learn(asker, spec, alphabet=alphabet, extra_characters=HOSTILE_SINGLES,
+                      extra_tests=tests, seed=seed, **settings.options())
+        sampled = _sampled_differences(model, seed + round_)
+        answers = asker(sampled)
+        known.update(zip(sampled, answers))
+        contradicted = tuple(t for t, a in zip(sampled, answers) if model.model.accepts(t) != a)
+        if not contradicted or model.budget_exhausted:
+            break
+        tests += contradicted
+    return Learned(model, summarise(model.wrongly_accepted), summarise(model.wrongly_rejected),
+                   tuple(sampled), contradicted)
+
+
+def _sampled_differences(model, seed: int) -> list[str]:
+    """Up to ``SAMPLED_DIFFERENCES`` distinct strings from each difference language."""
+    found: list[str] = []
+    for side in (model.wrongly_accepted, model.wrongly_rejected):
+        if not side.is_empty():
+            with warnings.catch_warnings():  # fewer strings than asked: all of them, no warning
+                warnings.simplefilter("ignore", PfuzzWarning)
+                found += side.sample(SAMPLED_DIFFERENCES, seed=seed, unique=True)
+    return list(dict.fromkeys(found))
 
 
 def to_confirm(learned: Learned, already: set[str]) -> list[str]:
     """Strings to ask once more: confirmed differences and the shortest of each side, new ones only."""
     texts = [*learned.model.confirmed_differences, *learned.wrongly_accepted.examples,
-             *learned.wrongly_rejected.examples]
-    return [t for t in dict.fromkeys(texts) if t not in already][:4 * DEFAULT_EXAMPLES]
+             *learned.wrongly_rejected.examples, *learned.sampled]
+    return [t for t in dict.fromkeys(texts) if t not in already][:4 * DEFAULT_EXAMPLES + 2 * SAMPLED_DIFFERENCES]
