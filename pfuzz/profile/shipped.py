@@ -1,7 +1,7 @@
 """Shipped profiles: the standard profiles that come with pfuzz, found by name.
 
 The TOML files live in the repository's top-level ``profiles/`` folder. A built
-wheel carries them inside the package as ``pfuzz/profile/standard/`` (setup.py
+wheel carries them inside the package as ``pfuzz/profile/standard/`` (pyproject.toml
 maps the folder there); a checkout, installed in editable mode or not, reads
 the folder itself. A PROFILE argument is a path when a file of that name
 exists, else the bare name of a shipped profile (``ipv4`` for ``ipv4.toml``).
