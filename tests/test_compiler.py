@@ -2,6 +2,9 @@
 
 from __future__ import annotations
 
+import itertools
+import re
+
 import pytest
 
 import pfuzz
@@ -295,6 +298,33 @@ def test_runs_and_nested_optionals_fold_into_one_repeat():
     assert simplify(Sequence((Repeat(a, 0, 1),) * 5000)) == Repeat(a, 0, 5000)
     assert simplify(Repeat(Repeat(a, 2, 3), 0, 4)) == Repeat(Repeat(a, 2, 3), 0, 4)  # {0,2,3,4,...}: a gap
     assert compiled(Repeat(Repeat(a, 0, 1), 2500, 2500), "a") == compiled(Repeat(a, 0, 2500), "a")
+
+
+POSSESSIVE_RUNS = [r"a{2,4}+", r"a{2,4}+a", r"a{,3}+b?", r"[ab]{1,}+b", r"a*+", r"a{3}+a?",
+                   r"(?i)a{1,2}+A", r"x(?:a{0,2}+|b)a", r"a?+a", r"[^b]{1,3}+b*"]
+
+
+@pytest.mark.parametrize("pattern", POSSESSIVE_RUNS)
+def test_a_possessive_run_of_one_class_needs_no_atomic_groups(pattern, monkeypatch):
+    from pfuzz.automata.construction import simplify as simplify_module
+
+    alphabet = CharSet.from_chars("abAx")
+    rewritten = compile_dfa(pattern, alphabet)
+    rx = re.compile(pattern)  # reference: re.fullmatch
+    for n in range(7):
+        for letters in itertools.product("abAx", repeat=n):
+            text = "".join(letters)
+            assert rewritten.accepts(text) == bool(rx.fullmatch(text)), (pattern, text)
+    monkeypatch.setattr(simplify_module, "_longest_run", lambda node: None)
+    assert compile_dfa(pattern, alphabet) == rewritten  # the same as through atomic groups
+
+
+def test_a_long_possessive_run_is_linear():
+    a = cls("a")
+    assert simplify(Repeat(a, 0, 1001, possessive=True)) == Alternation(
+        (Repeat(a, 1001, 1001), Sequence((Repeat(a, 0, 1000), Lookahead(a, True)))))
+    # a{,1001}+ then b: 1,001 a's at most, then b (the run is the longest it can be). Counted by hand.
+    assert compile_dfa(r"a{,1001}+b", CharSet.from_chars("ab")).n_states == 1003
 
 
 def test_captured_characters_are_bounded():
