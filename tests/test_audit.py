@@ -294,10 +294,11 @@ def test_learned_differences_are_confirmed_findings():
                                  for t in side.examples)
 
 
-def test_a_model_the_validator_contradicts_is_learned_again():
+def test_a_model_the_validator_would_contradict_is_refined_before_it_counts():
     # With no valid samples, every case with a lower-case letter also holds an upper-case one, so
     # the validator (re.fullmatch("[a-z]{3,12}") without the case flag) accepts none of them and
-    # the first model is empty; strings sampled from its differences (all lower case) refute it.
+    # the first hypotheses are empty; strings sampled from their differences (all lower case,
+    # say) refute them.
     report = audit("(?i)[a-z]{3,12}", "planted:vessel_missing_case_flag",
                    settings=Settings(valid=0, rejects=50))
     learned = report.learned

@@ -167,6 +167,17 @@ def test_a_class_split_is_found_when_one_interior_character_is_treated_different
             assert model.model.accepts(word) == (re.fullmatch(bug, word) is not None)
 
 
+def test_strings_sampled_from_the_differences_refute_a_hypothesis_the_probes_miss():
+    # The validator forgot the case flag: "aaa" passes, "Aaa", "aAa", ... do not. Probing one
+    # position at a time beside a representative (A) never meets three lower-case letters at
+    # once; a string drawn from spec - hypothesis does. re.fullmatch is the reference, and
+    # 52**3 - 26**3 strings of three letters are the validator's wrong rejects (by counting).
+    model = learn(fullmatch("[a-z]{3}"), pfuzz.compile("(?i)[a-z]{3}"))
+    assert model.wrongly_rejected.count(3) == 52 ** 3 - 26 ** 3 and model.wrongly_accepted.is_empty()
+    for word in ["abc", "Abc", "ABC", "zzz", "ab"]:
+        assert model.model.accepts(word) == (re.fullmatch("[a-z]{3}", word) is not None)
+
+
 def test_an_unprobed_interior_character_is_beyond_the_guarantee():
     # With no interior probes and no case holding q, the q-class is never split: the model
     # is the specification, and the guarantee says what it rests on.

@@ -9,14 +9,14 @@ extra tests; every exception a query raises is logged with the cases' own
 alphabet, with the single hostile characters (line ends, blanks, the byte order
 mark) as classes of their own.
 
-After learning, the model's claims are tested: up to ``SAMPLED_DIFFERENCES``
-strings drawn uniformly by length from each difference language are asked of
-the validator, and where it answers one unlike the model (the model is wrong
-there: a validator outside the guarantee's conditions, such as one that tells
-apart characters the model took as one class), the model is learned again with
-those strings among its tests. A model still contradicted is not the audit's
-evidence (``pfuzz.audit.evidence``). The two difference languages (model −
-specification: wrongly accepted; specification − model: wrongly rejected) are summarised exactly
+After learning (whose last check already asks strings drawn from the differences
+of each hypothesis), the final model's claims are tested once more: up to
+``SAMPLED_DIFFERENCES`` strings drawn uniformly by length from each difference
+language are asked of the validator; where it answers one unlike the model (the
+model is wrong there: a validator outside the guarantee's conditions), the model
+is not the audit's evidence (``pfuzz.audit.evidence``). The two difference
+languages (model − specification: wrongly accepted; specification − model:
+wrongly rejected) are summarised exactly
 (``pfuzz.audit.comparison.summarise``: counts per length, shortest members, a
 pattern by state elimination). The learner's confirmed differences and the
 shortest members of each difference language are asked of the validator once
@@ -69,12 +69,6 @@ class LearningSettings:
         return {**out, "max_seconds": self.max_seconds}
 
 
-#: Strings drawn uniformly (by length) from each difference of the model, to test its claims.
-SAMPLED_DIFFERENCES = 16
-#: Times the model is learned again when the validator contradicts a sampled difference.
-RELEARN_ROUNDS = 3
-
-
 @dataclass(frozen=True)
 class Learned:
     """A learned model and its difference languages, summarised; ``sampled`` are strings drawn
@@ -113,30 +107,25 @@ class _Asker:
 def learn_validator(spec: Language, target, cases, verdicts, alphabet, settings: LearningSettings,
                     seed: int, log: RaisedLog) -> Learned:
     """Learn the validator's automaton over ``alphabet`` (the audit alphabet), then test the
-    model's claims on strings drawn from its differences; where the validator contradicts
-    one, learn again with those strings among the tests (at most ``RELEARN_ROUNDS`` times)."""
+    model's claims once more on strings drawn from its differences."""
     from pfuzz.audit.comparison import lift
     from pfuzz.learning import learn
 
     known = {c.text: v.accepted for c, v in zip(cases, verdicts)}
     asker = _Asker(target, known, lift(spec, alphabet), log)
-    tests = [c.text for c in cases]
-    for round_ in range(RELEARN_ROUNDS + 1):
-        model = learn(asker, spec, alphabet=alphabet, extra_characters=HOSTILE_SINGLES,
-                      extra_tests=tests, seed=seed, **settings.options())
-        sampled = _sampled_differences(model, seed + round_)
-        answers = asker(sampled)
-        known.update(zip(sampled, answers))
-        contradicted = tuple(t for t, a in zip(sampled, answers) if model.model.accepts(t) != a)
-        if not contradicted or model.budget_exhausted:
-            break
-        tests += contradicted
+    model = learn(asker, spec, alphabet=alphabet, extra_characters=HOSTILE_SINGLES,
+                  extra_tests=[c.text for c in cases], seed=seed, **settings.options())
+    sampled = _sampled_differences(model, seed)
+    answers = asker(sampled)
+    contradicted = tuple(t for t, a in zip(sampled, answers) if model.model.accepts(t) != a)
     return Learned(model, summarise(model.wrongly_accepted), summarise(model.wrongly_rejected),
                    tuple(sampled), contradicted)
 
 
 def _sampled_differences(model, seed: int) -> list[str]:
     """Up to ``SAMPLED_DIFFERENCES`` distinct strings from each difference language."""
+    from pfuzz.learning.learner import SAMPLED_DIFFERENCES
+
     found: list[str] = []
     for side in (model.wrongly_accepted, model.wrongly_rejected):
         if not side.is_empty():
@@ -150,4 +139,4 @@ def to_confirm(learned: Learned, already: set[str]) -> list[str]:
     """Strings to ask once more: confirmed differences and the shortest of each side, new ones only."""
     texts = [*learned.model.confirmed_differences, *learned.wrongly_accepted.examples,
              *learned.wrongly_rejected.examples, *learned.sampled]
-    return [t for t in dict.fromkeys(texts) if t not in already][:4 * DEFAULT_EXAMPLES + 2 * SAMPLED_DIFFERENCES]
+    return [t for t in dict.fromkeys(texts) if t not in already][:4 * DEFAULT_EXAMPLES + len(learned.sampled)]

@@ -14,7 +14,11 @@ refined hypothesis:
    counterexample;
 3. every class's probes in place of its representative, after every state (class splits);
 4. the caller's extra test strings (the audit's cases);
-5. the state tests for 1, 2, ..., k extra states.
+5. the state tests for 1, 2, ..., k extra states;
+6. ``SAMPLED_DIFFERENCES`` strings drawn uniformly by length from each difference of the
+   hypothesis and the specification: the hypothesis' claims, tested at random where the
+   checks above test them at their shortest (a validator outside the guarantee's conditions,
+   one that tells apart characters of a class in some context, is often caught here).
 
 A counterexample is first mapped to representatives: if that changes the validator's answer,
 a binary search over positions finds a character that its representative cannot stand for,
@@ -32,13 +36,14 @@ the state tests for k extra states add states × classes^(k+1) × (tree depth) a
 from __future__ import annotations
 
 import itertools
+import warnings
 from typing import Callable, Iterable, Iterator, Sequence
 
 from pfuzz.automata.dfa import DEAD, DFA, empty
 from pfuzz.automata.minimise import minimise
 from pfuzz.base.charset import CharSet
 from pfuzz.base.randomness import source
-from pfuzz.errors import ArgumentError
+from pfuzz.errors import ArgumentError, PfuzzWarning
 from pfuzz.language import Language
 from pfuzz.learning.conformance import (difference_witnesses, matched_states, probe_tests,
                                         specification_probes, state_tests)
@@ -56,6 +61,8 @@ DEFAULT_EXTRA_STATES = 1
 DEFAULT_MAX_QUERIES = 200_000
 #: States the model may grow to before learning stops (a validator that is not regular grows).
 DEFAULT_MAX_STATES = 2_000
+#: Strings drawn from each difference of hypothesis and specification by the last check.
+SAMPLED_DIFFERENCES = 16
 #: New strings asked in the first round of a batch of tests; each next round asks twice as many,
 #: up to ROUND_SIZE (the first failure usually comes early, and ends the batch).
 FIRST_ROUND = 16
@@ -159,7 +166,7 @@ class _Learning:
             if self._use(self._failures(state_tests(self.tree, self.hypothesis, depth + 1))):
                 return True
             self.depth = depth
-        return False
+        return self._use(self._failures(self._sampled_differences()))
 
     # -- the checks ----------------------------------------------------------------------
     def _against_specification(self) -> bool:
@@ -218,6 +225,17 @@ class _Learning:
         self._snapshot()
         self.pending = False
         return True
+
+    def _sampled_differences(self) -> Iterator[tuple[str, bool]]:
+        model = Language(minimise(self.hypothesis), alphabet_name=self.spec.alphabet_name)
+        for side in (model - self.spec, self.spec - model):
+            if side.is_empty():
+                continue
+            with warnings.catch_warnings():  # fewer strings than asked: all of them, no warning
+                warnings.simplefilter("ignore", PfuzzWarning)
+                words = side.sample(SAMPLED_DIFFERENCES, seed=self.symbols.random, unique=True)
+            for word in words:
+                yield word, self.predict(word)
 
     def _extra_tests(self) -> Iterator[tuple[str, bool]]:
         for word in self.tests:
