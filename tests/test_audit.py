@@ -389,3 +389,20 @@ def test_a_learned_model_is_the_evidence_only_where_the_answers_bear_it_out():
     refuted = evidence_of(report(False, 2, contradicted=("x",)))
     assert refuted.basis == "cases" and "answered 1 of 2 strings sampled from the model's differences " \
         "unlike the model" in refuted.sentence
+
+
+def test_a_difference_of_more_than_4300_digits_is_described_not_a_traceback():
+    # Found by the profile fuzz run: describe_side turned an exact count of thousands of digits
+    # into text and Python refused (its int-to-str limit, sys.get_int_max_str_digits()).
+    from types import SimpleNamespace
+
+    from pfuzz.audit.evidence import describe_side
+    from pfuzz.base.jsonlines import json_text
+
+    huge = 95 ** 2200  # 4,351 digits, beginning 981593 (str() with the limit lifted, by hand)
+    side = SimpleNamespace(empty=False, total=None, counts={2200: huge})
+    assert re.fullmatch(r"infinitely many strings \(a number of about 4,35[0-2] digits of length 2200, "
+                        r"the shortest\)", describe_side(side))
+    assert re.fullmatch(r"a number of about 4,35[0-2] digits strings",
+                        describe_side(SimpleNamespace(empty=False, total=huge, counts={})))
+    assert json_text({"count": huge}).startswith('{"count": 981593') and len(json_text(huge)) == 4351

@@ -11,7 +11,8 @@ from click.testing import CliRunner
 from pfuzz.cli import main
 from pfuzz.errors import ProfileError
 from pfuzz.profile.loader import parse_profile
-from pfuzz.profile.tomlcheck import MAX_NESTING, number_text
+from pfuzz.base.numbers import number_text
+from pfuzz.profile.tomlcheck import MAX_NESTING
 
 HEAD = b'[profile]\ntitle = "Hostile"\n'
 FIELD = b'[[field]]\nname = "code"\npattern = "[A-C][0-9]{2}"\n'

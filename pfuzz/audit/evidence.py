@@ -25,6 +25,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from pfuzz.base.numbers import number_text
+
 __all__ = ["Evidence", "describe_side", "evidence_of"]
 
 
@@ -44,11 +46,11 @@ def describe_side(side) -> str:
     if side.empty:
         return "no strings"
     if side.total is not None:
-        return f"{side.total:,} string{'' if side.total == 1 else 's'}"
+        return f"{number_text(side.total)} string{'' if side.total == 1 else 's'}"
     shortest = min(side.counts) if side.counts else None
     if shortest is None:
         return "infinitely many strings"
-    return f"infinitely many strings ({side.counts[shortest]:,} of length {shortest}, the shortest)"
+    return f"infinitely many strings ({number_text(side.counts[shortest])} of length {shortest}, the shortest)"
 
 
 def evidence_of(report) -> Evidence:

@@ -11,6 +11,8 @@ from __future__ import annotations
 
 import json
 
+from pfuzz.base.numbers import big_integers
+
 __all__ = ["json_text", "jsonl_line", "jsonl_text", "read_jsonl"]
 
 _LINE_BREAKERS = {"\u0085": "\\u0085", "\u2028": "\\u2028", "\u2029": "\\u2029"}
@@ -22,10 +24,11 @@ _LINE_ENCODER = json.JSONEncoder(ensure_ascii=False, sort_keys=True)
 def json_text(value, indent: int | None = None, sort_keys: bool = True) -> str:
     """Deterministic JSON: sorted keys (or the caller's fixed order), UTF-8 text, no raw
     line-breaking characters."""
-    if indent is None and sort_keys:
-        text = _LINE_ENCODER.encode(value)
-    else:
-        text = json.dumps(value, ensure_ascii=False, sort_keys=sort_keys, indent=indent)
+    with big_integers():  # exact counts of any size
+        if indent is None and sort_keys:
+            text = _LINE_ENCODER.encode(value)
+        else:
+            text = json.dumps(value, ensure_ascii=False, sort_keys=sort_keys, indent=indent)
     for char, escape in _LINE_BREAKERS.items():
         text = text.replace(char, escape)
     return text

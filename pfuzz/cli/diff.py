@@ -7,6 +7,8 @@ from pathlib import Path
 
 import click
 
+from pfuzz.base.numbers import number_text
+
 from pfuzz.base.jsonlines import json_text
 from pfuzz.audit.comparison import DEFAULT_EXAMPLES, Comparison, Side, compare
 from .common import (EXIT_DIFFERENT, EXIT_OK, compile_language, emit, escape_text, fail,
@@ -90,13 +92,13 @@ def side_lines(title: str, side: Side, rows: int | None = None) -> list[str]:
     if side.total is None:
         size = "infinitely many strings"
     else:
-        size = f"{side.total:,} string{'' if side.total == 1 else 's'}"
+        size = f"{number_text(side.total)} string{'' if side.total == 1 else 's'}"
     lines = [f"{title}: {size}",
              f"  pattern:  {pattern_label(side)}",
              f"  shortest: {', '.join(quote(t) for t in side.examples)}",
              f"  {'length':>6}  count"]
     counts = list(side.counts.items())
-    lines.extend(f"  {n:>6}  {c:,}" for n, c in counts[:rows])
+    lines.extend(f"  {n:>6}  {number_text(c)}" for n, c in counts[:rows])
     if rows is not None and len(counts) > rows:
         lines.append(f"  {'...':>6}  ({len(counts) - rows} more lengths)")
     elif not side.finite or (side.language.max_length or 0) > side.bound:

@@ -7,13 +7,13 @@ strings than asked) and the progress bar go to standard error.
 
 from __future__ import annotations
 
-import contextlib
 import sys
 import warnings
 
 import click
 
 from pfuzz.base.jsonlines import json_text
+from pfuzz.base.numbers import big_integers
 from pfuzz.base.constants import UNBOUNDED_SPAN
 from pfuzz.errors import PfuzzWarning
 from pfuzz.counting.sampler import METHODS
@@ -21,17 +21,6 @@ from .common import (compile_language, emit, fail, format_option, how_many_optio
                      language_options, max_length_option, min_length_option, note, out_option,
                      pattern_input, render_strings, report_errors, require_output_memory,
                      seed_option, wants_progress)
-
-
-@contextlib.contextmanager
-def _big_integers():
-    """Let counts with more than 4300 digits print (Python's default int-to-str limit)."""
-    previous = sys.get_int_max_str_digits()
-    sys.set_int_max_str_digits(0)
-    try:
-        yield
-    finally:
-        sys.set_int_max_str_digits(previous)
 
 
 def _bounds(lang, min_length, max_length) -> tuple[int, int]:
@@ -77,7 +66,7 @@ def count(pattern, alphabet, flags, state_cap, length, min_length, max_length, f
     lang = compile_language(pattern, alphabet, flags, state_cap)
     low, high = _bounds(lang, min_length, max_length)
     table = lang.counts(low, high)
-    with _big_integers():
+    with big_integers():
         emit(_render_counts(lang, table, fmt, defaulted=max_length is None), out)
 
 

@@ -24,9 +24,10 @@ import codecs
 import difflib
 import tomllib
 
+from pfuzz.base.numbers import number_text
 from pfuzz.errors import ProfileError, shorten
 
-__all__ = ["MAX_NESTING", "RENAMED_KEYS", "TableReader", "hint", "number_text", "read_toml"]
+__all__ = ["MAX_NESTING", "RENAMED_KEYS", "TableReader", "hint", "read_toml"]
 
 #: Deepest nesting of arrays and tables a profile may use, the document's own table counting
 #: as one (a [[field]]'s require list is at level four).
@@ -34,9 +35,6 @@ MAX_NESTING = 32
 #: Byte-order marks of encodings a profile may not use, longest first.
 OTHER_ENCODINGS = ((codecs.BOM_UTF32_LE, "UTF-32"), (codecs.BOM_UTF32_BE, "UTF-32"),
                    (codecs.BOM_UTF16_LE, "UTF-16"), (codecs.BOM_UTF16_BE, "UTF-16"))
-#: Binary digits past which an integer is described by its length, not printed
-#: (below Python's 4,300-digit int-to-string limit).
-PRINTABLE_BITS = 4000 * 3
 
 
 def read_toml(raw: bytes, label: str) -> dict:
@@ -85,14 +83,6 @@ def _depth(value) -> int:
                 return deepest
             stack.extend((child, depth + 1) for child in item)
     return deepest
-
-
-def number_text(value: int) -> str:
-    """``value`` with thousands separators, or its length when it is too long to print."""
-    if value.bit_length() <= PRINTABLE_BITS:
-        return f"{value:,}"
-    digits = int(value.bit_length() * 0.30103) + 1
-    return f"{'-' if value < 0 else ''}a number of about {digits:,} digits"
 
 
 #: Keys of earlier profile versions, with what replaced them.

@@ -32,6 +32,7 @@ from pathlib import Path
 
 from pfuzz import __version__
 from pfuzz.base.files import write_atomic
+from pfuzz.base.numbers import number_text
 
 __all__ = ["ROW_LIMIT", "FieldView", "visible", "field_view", "corpus_views", "render",
            "write_report", "write_audit_page"]
@@ -161,7 +162,8 @@ def _facts(language, low: int, high: int, counts: dict) -> list[tuple[str, str]]
     return [("alphabet", language.alphabet_name),
             ("states", f"{language.states:,} (minimal DFA, dead state not counted)"),
             ("lengths", f"{low} to {high}" if finite else f"{low} and up (shown to {high})"),
-            ("strings", f"{total:,}" if finite else f"infinitely many ({total:,} up to length {high})")]
+            ("strings", number_text(total) if finite
+             else f"infinitely many ({number_text(total)} up to length {high})")]
 
 
 def _depth_table(dfa) -> list[tuple[int, int]]:
