@@ -88,6 +88,8 @@ def run_case(args: list[str], files: dict[str, bytes], folder: Path, timeout: fl
     if result.exception is not None and not isinstance(result.exception, SystemExit):
         trace = "".join(traceback.format_exception(*result.exc_info))
         return "traceback", trace[-3000:]
+    if "CaseTimeout" in result.output:  # the timer fired in a finaliser ("Exception ignored in")
+        return "slow", ""
     if "Traceback (most recent call last)" in result.output:
         return "traceback", result.output[-3000:]
     return result.exit_code, ""
