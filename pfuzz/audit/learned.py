@@ -29,12 +29,10 @@ Cost: the learner's (its budgets bound queries, states and time; see
 
 from __future__ import annotations
 
-import warnings
 from dataclasses import dataclass
 
 from pfuzz.audit.comparison import DEFAULT_EXAMPLES, Side, summarise
 from pfuzz.audit.findings import RaisedLog
-from pfuzz.errors import PfuzzWarning
 from pfuzz.language import Language
 
 __all__ = ["LearningSettings", "Learned", "learn_validator", "HOSTILE_SINGLES"]
@@ -110,29 +108,17 @@ def learn_validator(spec: Language, target, cases, verdicts, alphabet, settings:
     model's claims once more on strings drawn from its differences."""
     from pfuzz.audit.comparison import lift
     from pfuzz.learning import learn
+    from pfuzz.learning.learner import sample_differences
 
     known = {c.text: v.accepted for c, v in zip(cases, verdicts)}
     asker = _Asker(target, known, lift(spec, alphabet), log)
     model = learn(asker, spec, alphabet=alphabet, extra_characters=HOSTILE_SINGLES,
                   extra_tests=[c.text for c in cases], seed=seed, **settings.options())
-    sampled = _sampled_differences(model, seed)
+    sampled = sample_differences((model.wrongly_accepted, model.wrongly_rejected), seed)
     answers = asker(sampled)
     contradicted = tuple(t for t, a in zip(sampled, answers) if model.model.accepts(t) != a)
     return Learned(model, summarise(model.wrongly_accepted), summarise(model.wrongly_rejected),
                    tuple(sampled), contradicted)
-
-
-def _sampled_differences(model, seed: int) -> list[str]:
-    """Up to ``SAMPLED_DIFFERENCES`` distinct strings from each difference language."""
-    from pfuzz.learning.learner import SAMPLED_DIFFERENCES
-
-    found: list[str] = []
-    for side in (model.wrongly_accepted, model.wrongly_rejected):
-        if not side.is_empty():
-            with warnings.catch_warnings():  # fewer strings than asked: all of them, no warning
-                warnings.simplefilter("ignore", PfuzzWarning)
-                found += side.sample(SAMPLED_DIFFERENCES, seed=seed, unique=True)
-    return list(dict.fromkeys(found))
 
 
 def to_confirm(learned: Learned, already: set[str]) -> list[str]:

@@ -88,6 +88,18 @@ def learn(ask: Callable[[Sequence[str]], Sequence[bool]], specification: Languag
     return run.result(interior_probes)
 
 
+def sample_differences(sides, seed) -> list[str]:
+    """Up to ``SAMPLED_DIFFERENCES`` distinct strings drawn from each non-empty language of
+    ``sides`` (all of a smaller one, without a warning)."""
+    found: list[str] = []
+    for side in sides:
+        if not side.is_empty():
+            with warnings.catch_warnings():
+                warnings.simplefilter("ignore", PfuzzWarning)
+                found += side.sample(SAMPLED_DIFFERENCES, seed=seed, unique=True)
+    return list(dict.fromkeys(found))
+
+
 def _check_arguments(interior_probes, extra_states, max_queries, max_states, max_seconds) -> None:
     for name, value, least in (("interior_probes", interior_probes, 0),
                                ("extra_states", extra_states, 0),
@@ -228,14 +240,8 @@ class _Learning:
 
     def _sampled_differences(self) -> Iterator[tuple[str, bool]]:
         model = Language(minimise(self.hypothesis), alphabet_name=self.spec.alphabet_name)
-        for side in (model - self.spec, self.spec - model):
-            if side.is_empty():
-                continue
-            with warnings.catch_warnings():  # fewer strings than asked: all of them, no warning
-                warnings.simplefilter("ignore", PfuzzWarning)
-                words = side.sample(SAMPLED_DIFFERENCES, seed=self.symbols.random, unique=True)
-            for word in words:
-                yield word, self.predict(word)
+        for word in sample_differences((model - self.spec, self.spec - model), self.symbols.random):
+            yield word, self.predict(word)
 
     def _extra_tests(self) -> Iterator[tuple[str, bool]]:
         for word in self.tests:
