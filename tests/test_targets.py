@@ -95,6 +95,21 @@ def test_timeout_is_kept_when_a_descendant_holds_the_output_open():
     assert time.monotonic() - started < 15
 
 
+@pytest.mark.skipif(not Path("/proc/self/environ").exists(), reason="needs Linux /proc")
+def test_a_descendant_in_a_session_of_its_own_is_ended_with_the_validator(tmp_path):
+    # The descendant calls setsid, so the process group cannot reach it; it is found by
+    # the run token its environment inherited. Whether it runs is read from /proc.
+    pid_file = tmp_path / "pid"
+    cmd = f"sh -c 'setsid sleep 40 & echo $! > {pid_file}; cat >/dev/null; sleep 1000'"
+    with pytest.raises(TargetError, match="did not finish within 2 s"), CommandTarget(cmd, timeout=2) as target:
+        target.verdicts(["AB-1234"])
+    pid = int(pid_file.read_text())
+    deadline = time.monotonic() + 5
+    while _running(pid) and time.monotonic() < deadline:
+        time.sleep(0.05)   # a killed process is reaped by its new parent, not by pfuzz
+    assert not _running(pid)
+
+
 @pytest.mark.parametrize("cmd, message", [
     ("yes 1", "too many answers: the command "),  # answered more, or wrote before it was asked
     ("sh -c 'yes 1 | tr -d \"\\n\"'", "wrote an answer line longer than 1,024 bytes"),

@@ -21,13 +21,22 @@ Ending: ``close`` sends end of input, waits ``GRACE`` seconds at most, then
 kills the group whatever happened (a validator's helpers do not outlive the
 audit). Processes still running when pfuzz exits, or when an exception such
 as Ctrl-C's ``KeyboardInterrupt`` unwinds through a round, are killed too.
-What cannot be reached: a descendant that moved to a new session of its own
-is not in the group; pfuzz no longer waits for it, but it runs on until it ends.
+
+Descendants that left the group: a process that starts a new session of its
+own (``setsid``) is out of the process group's reach, so each validator is
+started with a run token in its environment (``RUN_TOKEN_VARIABLE``), which
+its descendants inherit; when the group is killed, every process of this user
+whose environment carries the token is killed as well (found by reading
+``/proc/PID/environ``, Linux). What still escapes: a descendant that clears or
+rewrites its environment, and any descendant on a system without ``/proc``.
+The scan reads one small file per running process, once per validator's end
+(a few milliseconds).
 """
 
 from __future__ import annotations
 
 import atexit
+import itertools
 import os
 import selectors
 import signal
@@ -38,7 +47,8 @@ from dataclasses import dataclass
 
 from pfuzz.errors import TargetError
 
-__all__ = ["ERROR_TAIL", "GRACE", "Process", "Round", "describe_status", "error_tail"]
+__all__ = ["ERROR_TAIL", "GRACE", "RUN_TOKEN_VARIABLE", "Process", "Round", "carriers", "describe_status",
+           "error_tail", "kill_carriers"]
 
 #: Bytes of a validator's error output kept for messages.
 ERROR_TAIL = 8192
@@ -47,7 +57,12 @@ GRACE = 0.5
 #: Bytes read or written per system call.
 CHUNK = 65536
 
+#: Environment variable carrying a validator's run token to all its descendants.
+RUN_TOKEN_VARIABLE = "PFUZZ_VALIDATOR_RUN"
+PROC = "/proc"
+
 _LIVE: "weakref.WeakSet[Process]" = weakref.WeakSet()
+_STARTS = itertools.count()
 
 
 @dataclass
@@ -62,10 +77,12 @@ class Process:
     """One running validator in its own session; ``label`` names it in messages."""
 
     def __init__(self, argv: list[str], label: str, pass_fds: tuple[int, ...] = ()):
+        self.token = f"{os.getpid()}.{next(_STARTS)}.{time.monotonic_ns()}"
+        environment = {**os.environ, RUN_TOKEN_VARIABLE: self.token}
         try:
             self.popen = subprocess.Popen(argv, stdin=subprocess.PIPE, stdout=subprocess.PIPE,
                                           stderr=subprocess.PIPE, start_new_session=True,
-                                          pass_fds=pass_fds, bufsize=0)
+                                          pass_fds=pass_fds, bufsize=0, env=environment)
         except OSError as error:
             raise TargetError(f"cannot run {argv[0]!r}: {error.strerror}") from None
         self.label = label
@@ -236,6 +253,7 @@ class Process:
             self.popen.kill()
         except OSError:
             pass
+        kill_carriers(self.token)
         try:
             self.popen.wait(5)
         except subprocess.TimeoutExpired:
@@ -257,6 +275,36 @@ class Process:
 
     def error_tail(self) -> str:
         return error_tail(self.tail.decode("utf-8", "replace"))
+
+
+def carriers(token: str, proc: str = PROC) -> list[int]:
+    """Processes (other than this one) whose environment carries ``token`` (Linux ``/proc``)."""
+    needle = f"{RUN_TOKEN_VARIABLE}={token}".encode()
+    try:
+        entries = os.listdir(proc)
+    except OSError:
+        return []
+    found = []
+    for entry in entries:
+        if not entry.isdigit() or int(entry) == os.getpid():
+            continue
+        try:
+            with open(os.path.join(proc, entry, "environ"), "rb") as environ:
+                variables = environ.read().split(b"\0")
+        except OSError:
+            continue  # gone, or not ours to read
+        if needle in variables:
+            found.append(int(entry))
+    return found
+
+
+def kill_carriers(token: str) -> None:
+    """Kill every process found by ``carriers``: the descendants that left the group."""
+    for pid in carriers(token):
+        try:
+            os.kill(pid, signal.SIGKILL)
+        except OSError:
+            pass
 
 
 def error_tail(text: str, lines: int = 5) -> str:
