@@ -16,7 +16,7 @@ import pytest
 import pfuzz
 from pfuzz.automata.dfa import transitions
 from pfuzz.counting import bulk
-from pfuzz.counting.bulk import FloatTables, robin_hood
+from pfuzz.counting.bulk import FloatTables, robin_hood, vose
 from pfuzz.counting.walk import uniform_draws
 from pfuzz.errors import ResourceLimitError
 
@@ -67,10 +67,14 @@ def test_transition_probabilities_within_the_stated_relative_bound(pattern):
 
 
 @pytest.mark.parametrize("pattern", PATTERNS)
-@pytest.mark.parametrize("per_character", [True, False])
-def test_alias_tables_draw_the_exact_law_within_the_step_bound(pattern, per_character, monkeypatch):
+@pytest.mark.parametrize("per_character, pairing", [(True, "robin hood"), (False, "robin hood"),
+                                                    (True, "vose"), (False, "vose")])
+def test_alias_tables_draw_the_exact_law_within_the_step_bound(pattern, per_character, pairing,
+                                                               monkeypatch):
     if not per_character:
         monkeypatch.setattr(bulk, "CHARACTER_SLOT_BUDGET", 0)
+    if pairing == "vose":  # every row of two slots or more through the linear pairing
+        monkeypatch.setattr(bulk, "ROBIN_HOOD_FANOUT", 1)
     counter = pfuzz.compile(pattern).counter
     top = 16
     tables = FloatTables(counter, top)
@@ -94,15 +98,30 @@ def test_string_bound_is_small_for_everyday_patterns():
     assert plate.string_bound(6) == 0  # every level uniform: exact draws
 
 
-def test_robin_hood_rows_reproduce_their_weights():
+@pytest.mark.parametrize("pairing", [robin_hood, vose])
+def test_alias_rows_reproduce_their_weights(pairing):
     weights = np.array([[0.0, 0.5, 2.5], [1.0, 1.0, 1.0], [3.0, 0.0, 0.0], [0.2, 1.3, 1.5]])
-    prob, alias = robin_hood(weights)
-    for row, p, a in zip(weights, prob, alias):
-        law = np.zeros(3)
-        for j in range(3):
-            law[j] += p[j]
-            law[a[j]] += 1 - p[j]
-        assert np.allclose(law, row, atol=1e-12)
+    wide = np.random.default_rng(5).exponential(size=(3, 1000)) * np.array([[1.0], [0.0], [1.0]])
+    wide[1, 7] = 1.0  # one row with all its weight on one slot
+    wide[2, ::3] = 0.0
+    wide *= 1000 / wide.sum(axis=1, keepdims=True)
+    for rows in (weights, wide):
+        k = rows.shape[1]
+        prob, alias = pairing(rows)
+        assert prob.min() >= 0 and prob.max() <= 1
+        for row, p, a in zip(rows, prob, alias):
+            law = np.bincount(np.arange(k), weights=p, minlength=k) + np.bincount(a, weights=1 - p, minlength=k)
+            assert np.allclose(law, row, atol=1e-9)
+
+
+def test_wide_classes_get_one_slot_per_edge():
+    # A pair with 133,548 characters (\w over Unicode) once got one slot per character, and
+    # its alias row cost quadratic time (24 s): slots are per edge past PER_CHARACTER_FANOUT.
+    wide = FloatTables(pfuzz.compile(r"中\w\Z", alphabet="unicode").counter, 2)
+    assert not wide.per_character
+    narrow = FloatTables(pfuzz.compile(r"[a-z][0-9a-f]").counter, 2)
+    assert narrow.per_character
+    assert wide.step_bound(1) < 1e-10 and wide.string_bound(2) < 1e-10
 
 
 def test_counts_beyond_float_range_keep_their_exponents():
