@@ -129,14 +129,21 @@ def transitions(dfa: DFA, live: Optional[Container[int]] = None) -> list[list[tu
     character set per target state.
     """
     classes = dfa.classes
+    merged: dict[tuple[int, ...], CharSet] = {}  # rows share groupings: merge each once
     out = []
     for row in dfa.table:
-        groups: dict[int, list[CharSet]] = {}
+        groups: dict[int, list[int]] = {}
         for c, t in enumerate(row):
             if t >= 0 and (live is None or t in live):
-                groups.setdefault(t, []).append(classes[c])
-        edges = [(sets[0] if len(sets) == 1 else CharSet.of(r for cs in sets for r in cs.ranges), t)
-                 for t, sets in groups.items()]
+                groups.setdefault(t, []).append(c)
+        edges = []
+        for t, members in groups.items():
+            key = tuple(members)
+            chars = merged.get(key)
+            if chars is None:
+                chars = merged[key] = classes[members[0]] if len(members) == 1 else \
+                    CharSet.of(r for c in members for r in classes[c].ranges)
+            edges.append((chars, t))
         edges.sort(key=lambda edge: edge[0].min)
         out.append(edges)
     return out
