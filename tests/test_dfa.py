@@ -94,3 +94,19 @@ def test_explore_numbers_breadth_first_and_stops_at_the_cap():
 def test_explore_without_classes():
     d = explore(0, lambda s, c: None, lambda s: True, (), CharSet())
     assert d.n_states == 1 and d.table == ((),) and d.accepting == frozenset({0})
+
+
+def test_run_remembers_classes_up_to_its_limit_without_changing_answers(monkeypatch):
+    # Reference: Python's re on the same pattern; the remembered classes (DFA.run) must not
+    # change any answer, with room for every character or for one only.
+    import re
+
+    import pfuzz
+    pattern = r"[a-cß中]\w{2,}[^\W\d]"
+    texts = ["abcd", "中ßßß", "a12x", "a1", "中中中中中", "aé_é", "bΩΩ9", "x中中中", "ßa\n"]
+    for limit in (1, 1 << 16):
+        monkeypatch.setattr(automata, "SEEN_LIMIT", limit)
+        d = pfuzz.compile(pattern, alphabet="unicode").dfa
+        for text in texts * 2:
+            assert (d.run(text) in d.accepting) == (re.fullmatch(pattern, text) is not None), text
+        assert len(d._seen) <= limit

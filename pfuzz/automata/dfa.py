@@ -34,6 +34,8 @@ from pfuzz.errors import StateLimitError
 DEFAULT_STATE_CAP = 2**18
 
 DEAD = -1
+#: Characters whose class one automaton remembers for ``DFA.run``.
+SEEN_LIMIT = 1 << 16
 
 
 @dataclass(frozen=True, eq=False)
@@ -45,6 +47,7 @@ class DFA:
     table: tuple[tuple[int, ...], ...]
     accepting: frozenset[int]
     _index: tuple = field(default=(), repr=False, compare=False)
+    _seen: dict = field(default_factory=dict, repr=False, compare=False)  # character → class
 
     def __post_init__(self):
         starts, owners = [], []
@@ -78,12 +81,18 @@ class DFA:
         return -1
 
     def run(self, text: str, state: int = 0) -> int:
-        """The state reached after reading ``text`` (-1 once dead)."""
-        table = self.table
+        """The state reached after reading ``text`` (-1 once dead). Classes of the characters
+        met are remembered (up to ``SEEN_LIMIT`` of them): a dictionary lookup instead of a
+        binary search per character, which matters for long strings over wide alphabets."""
+        table, seen = self.table, self._seen
         for ch in text:
             if state < 0:
                 return DEAD
-            c = self.class_of(ch)
+            c = seen.get(ch)
+            if c is None:
+                c = self.class_of(ch)
+                if len(seen) < SEEN_LIMIT:
+                    seen[ch] = c
             if c < 0:
                 return DEAD
             state = table[state][c]
